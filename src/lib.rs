@@ -1,0 +1,29 @@
+//! # regwave
+//!
+//! Eigenfunctions of quantized mirror curves at ħ = 2π, built from the Beilinson regulator on the
+//! elliptic curves `φ(x, y) + a = 0` of the strip reflexive polygons, and checked against an
+//! independent harmonic-oscillator spectrum.
+//!
+//! Modules follow the mathematical objects (see `DEVELOPERS.md` for the architecture and
+//! `docs/REFERENCES.md` for the bibliography):
+//! - [`polygon`]: lattice polygons, reflexivity, GL₂(Z) normal form, strip form.
+//! - [`catalogue`]: the 16 reflexive classes, 15 with a canonical strip form.
+//! - [`laurent`]: the tempered Laurent polynomial φ, its strip decomposition `A y + B + C/y`,
+//!   and the exact constant terms `[φⁿ]₀`.
+//! - [`recurrence`]: the P-recursive recurrence satisfied by `[φⁿ]₀`, guessed and checked exactly.
+//! - [`operator`]: the quantum curve at ħ = 2π in shift form.
+//! - [`spectrum`]: the independent harmonic-oscillator diagonalization.
+//! - [`numeric`]: the small complex-number trait shared by the f64 and MPFR paths.
+//! - [`precision`]: digits ↔ bits, guard bits and tolerances in one place.
+
+pub mod catalogue;
+pub mod laurent;
+pub mod numeric;
+pub mod operator;
+pub mod polygon;
+pub mod precision;
+pub mod recurrence;
+pub mod spectrum;
+
+/// The version of this tool, recorded in every output.
+pub const TOOL_VERSION: &str = env!("CARGO_PKG_VERSION");
