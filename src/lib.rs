@@ -15,6 +15,8 @@
 //! - [`spectrum`]: the independent harmonic-oscillator diagonalization.
 //! - [`numeric`]: the small complex-number trait shared by the f64 and MPFR paths.
 //! - [`precision`]: digits ↔ bits, guard bits and tolerances in one place.
+//! - [`selection`]: command-line selections (family id or vertices, level ranges) resolved.
+//! - [`report`]: JSON documents and human tables (pure formatting, no I/O).
 
 pub mod catalogue;
 pub mod laurent;
@@ -23,6 +25,8 @@ pub mod operator;
 pub mod polygon;
 pub mod precision;
 pub mod recurrence;
+pub mod report;
+pub mod selection;
 pub mod spectrum;
 
 /// The version of this tool, recorded in every output.

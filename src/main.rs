@@ -1,1 +1,226 @@
-fn main() {}
+//! The `regwave` command line: argument parsing, calls into the library, file writing.
+
+use clap::{Args, Parser, Subcommand};
+use regwave::precision::{check_digits, PrecisionError};
+use regwave::selection::{self, Selection, SelectionError};
+use regwave::spectrum::{self, SpectrumError, SpectrumOptions};
+use regwave::{catalogue, report, TOOL_VERSION};
+use serde_json::{json, Value};
+use std::path::{Path, PathBuf};
+use std::process::ExitCode;
+use std::time::Instant;
+
+#[derive(Parser)]
+#[command(name = "regwave", version, about = "Eigenfunctions of quantized mirror curves at hbar = 2 pi from regulators (numerical evidence, not proofs)")]
+struct Cli {
+    #[command(subcommand)]
+    command: Command,
+}
+
+#[derive(Subcommand)]
+enum Command {
+    /// The catalogue of reflexive polygons: 15 strip families and the one excluded.
+    Families {
+        /// Print one JSON document instead of the table.
+        #[arg(long)]
+        json: bool,
+    },
+    /// Independent eigenvalues from a harmonic-oscillator basis, with convergence estimates.
+    Spectrum(SpectrumArgs),
+    /// The built-in demonstration, written into out/tour/.
+    Tour {
+        /// Output directory.
+        #[arg(long, default_value = "out/tour")]
+        out: PathBuf,
+    },
+}
+
+#[derive(Args, Clone)]
+struct FamilyArgs {
+    /// Catalogue id (see `regwave families`).
+    #[arg(long)]
+    family: Option<String>,
+    /// Vertices of a reflexive polygon, e.g. "(1,0),(0,1),(-1,-1)".
+    #[arg(long, allow_hyphen_values = true)]
+    vertices: Option<String>,
+    /// Coefficients to check against the tempered ones, e.g. "(1,0)=1,(0,1)=1".
+    #[arg(long, allow_hyphen_values = true)]
+    coefficients: Option<String>,
+}
+
+#[derive(Args, Clone)]
+struct SpectrumArgs {
+    #[command(flatten)]
+    family: FamilyArgs,
+    /// Levels: an inclusive range A..B or one level n.
+    #[arg(long, default_value = "0..5")]
+    levels: String,
+    /// Basis size N: solve at N and 3N/2 only (default: adaptive from 200 up to --max-basis).
+    #[arg(long)]
+    basis: Option<usize>,
+    /// Largest basis of the adaptive ladder 200, 300, 450, ...
+    #[arg(long, default_value_t = 450)]
+    max_basis: usize,
+    /// Decimal digits wanted.
+    #[arg(long, default_value_t = 16)]
+    digits: u32,
+    /// Print one JSON document instead of the table.
+    #[arg(long)]
+    json: bool,
+}
+
+/// A failure with its exit code: 2 for bad input, 1 for a computation that failed.
+struct Failure {
+    code: u8,
+    message: String,
+}
+
+impl Failure {
+    fn input(e: impl std::fmt::Display) -> Self {
+        Failure { code: 2, message: e.to_string() }
+    }
+    fn compute(e: impl std::fmt::Display) -> Self {
+        Failure { code: 1, message: e.to_string() }
+    }
+}
+
+impl From<SelectionError> for Failure {
+    fn from(e: SelectionError) -> Self {
+        Failure::input(e)
+    }
+}
+
+impl From<PrecisionError> for Failure {
+    fn from(e: PrecisionError) -> Self {
+        Failure::input(e)
+    }
+}
+
+impl From<SpectrumError> for Failure {
+    fn from(e: SpectrumError) -> Self {
+        match e {
+            SpectrumError::EmptyLevels | SpectrumError::BasisTooSmall { .. } => Failure::input(e),
+            _ => Failure::compute(e),
+        }
+    }
+}
+
+fn main() -> ExitCode {
+    let cli = Cli::parse();
+    let result = match cli.command {
+        Command::Families { json } => families(json),
+        Command::Spectrum(args) => spectrum_command(&args),
+        Command::Tour { out } => tour(&out),
+    };
+    match result {
+        Ok(()) => ExitCode::SUCCESS,
+        Err(f) => {
+            eprintln!("regwave: error: {}", f.message);
+            ExitCode::from(f.code)
+        }
+    }
+}
+
+fn families(json: bool) -> Result<(), Failure> {
+    let all = catalogue::all();
+    if json {
+        println!("{}", serde_json::to_string_pretty(&report::families_json(all)).expect("JSON"));
+    } else {
+        print!("{}", report::families_table(all));
+    }
+    Ok(())
+}
+
+fn select(f: &FamilyArgs) -> Result<Selection, Failure> {
+    Ok(selection::resolve(f.family.as_deref(), f.vertices.as_deref(), f.coefficients.as_deref())?)
+}
+
+fn family_inputs(f: &FamilyArgs, s: &Selection) -> Value {
+    json!({
+        "family": f.family,
+        "vertices": f.vertices,
+        "coefficients": f.coefficients,
+        "resolved_family": s.family.id,
+        "polygon": s.polygon.vertices(),
+        "transform": s.transform,
+        "phi": s.laurent.to_string(),
+    })
+}
+
+/// Runs the spectrum command; returns (family id, JSON document, table).
+fn run_spectrum(args: &SpectrumArgs) -> Result<(Value, String), Failure> {
+    check_digits(args.digits)?;
+    let sel = select(&args.family)?;
+    let levels = selection::parse_levels(&args.levels)?;
+    let (basis, max_basis) = match args.basis {
+        Some(n) => (n, spectrum::next_basis(n)),
+        None => (200.max(spectrum::minimum_basis(*levels.end())), args.max_basis),
+    };
+    let opts = SpectrumOptions { levels: levels.clone(), basis, max_basis, digits: args.digits, squeeze: 1.0 };
+    let start = Instant::now();
+    let spec = spectrum::solve(&sel.laurent, &opts)?;
+    let elapsed = start.elapsed().as_secs_f64();
+    let mut inputs = family_inputs(&args.family, &sel);
+    inputs["levels"] = json!([levels.start(), levels.end()]);
+    inputs["basis"] = json!(args.basis);
+    inputs["max_basis"] = json!(max_basis);
+    inputs["digits"] = json!(args.digits);
+    let doc = report::spectrum_json(sel.family.id, &spec, args.digits, inputs, elapsed);
+    let table = report::spectrum_table(sel.family.id, &spec, args.digits, elapsed);
+    Ok((doc, table))
+}
+
+fn spectrum_command(args: &SpectrumArgs) -> Result<(), Failure> {
+    let (doc, table) = run_spectrum(args)?;
+    if args.json {
+        println!("{}", serde_json::to_string_pretty(&doc).expect("JSON"));
+    } else {
+        print!("{table}");
+    }
+    Ok(())
+}
+
+/// Writes `contents` to `path` atomically: a temporary file in the same directory, then rename.
+fn write_atomic(path: &Path, contents: &str) -> Result<(), Failure> {
+    let dir = path.parent().filter(|d| !d.as_os_str().is_empty()).unwrap_or(Path::new("."));
+    std::fs::create_dir_all(dir).map_err(|e| Failure::input(format!("cannot create directory {}: {e}", dir.display())))?;
+    let name = path.file_name().map(|n| n.to_string_lossy().into_owned()).unwrap_or_default();
+    let tmp = dir.join(format!(".{name}.{}.tmp", std::process::id()));
+    std::fs::write(&tmp, contents).map_err(|e| Failure::input(format!("cannot write {}: {e}", tmp.display())))?;
+    std::fs::rename(&tmp, path).map_err(|e| {
+        let _ = std::fs::remove_file(&tmp);
+        Failure::input(format!("cannot write {}: {e}", path.display()))
+    })
+}
+
+/// The tour: the catalogue and the independent spectra of three families.
+fn tour(out: &Path) -> Result<(), Failure> {
+    let start = Instant::now();
+    let all = catalogue::all();
+    write_atomic(&out.join("families.json"), &serde_json::to_string_pretty(&report::families_json(all)).expect("JSON"))?;
+    write_atomic(&out.join("families.txt"), &report::families_table(all))?;
+    let mut md = String::from(
+        "# regwave tour\n\nGenerated by `regwave tour` (regwave ".to_string() + TOOL_VERSION + "). Numerical evidence, not proofs.\n\n",
+    );
+    md.push_str("## Catalogue\n\n```\n");
+    md.push_str(&report::families_table(all));
+    md.push_str("```\n\n## Independent spectra at hbar = 2 pi\n\n");
+    for id in ["F0", "P2", "dP3"] {
+        eprintln!("regwave tour: spectrum of {id} ...");
+        let args = SpectrumArgs {
+            family: FamilyArgs { family: Some(id.into()), vertices: None, coefficients: None },
+            levels: "0..3".into(),
+            basis: Some(200),
+            max_basis: 300,
+            digits: 16,
+            json: true,
+        };
+        let (doc, table) = run_spectrum(&args)?;
+        write_atomic(&out.join(format!("spectrum-{id}.json")), &serde_json::to_string_pretty(&doc).expect("JSON"))?;
+        md.push_str(&format!("### {id}\n\n```\n{table}```\n\n"));
+    }
+    md.push_str(&format!("Total time {:.1} s.\n", start.elapsed().as_secs_f64()));
+    write_atomic(&out.join("report.md"), &md)?;
+    eprintln!("regwave tour: wrote {}", out.display());
+    Ok(())
+}

@@ -1,1 +1,170 @@
-//! numeric
+//! The small complex-number trait that lets one algorithm run in double precision
+//! ([`num_complex::Complex64`]) and at any precision ([`rug::Complex`], MPC).
+//!
+//! Precision is explicit: constructors take the precision in bits, and every value created from
+//! another (`*_like`) inherits that value's precision. For `Complex64` the precision arguments
+//! are ignored (53 bits). Constants (π, 2πi, ħ = 2π) are always made at the precision of the
+//! values they meet: one constant left at 53 bits caps a whole computation at 1e-15.
+
+use num_complex::Complex64;
+use rug::float::Constant;
+use rug::ops::Pow;
+use rug::{Complex, Float};
+use std::fmt::Debug;
+use std::ops::{Add, Div, Mul, Neg, Sub};
+
+/// A complex field element at a known precision.
+pub trait CNum:
+    Clone
+    + Debug
+    + Add<Output = Self>
+    + Sub<Output = Self>
+    + Mul<Output = Self>
+    + Div<Output = Self>
+    + Neg<Output = Self>
+{
+    /// Working precision in bits (53 for `Complex64`).
+    fn prec(&self) -> u32;
+    /// `re + i·im` at `prec` bits.
+    fn from_f64s(re: f64, im: f64, prec: u32) -> Self;
+    /// An integer at `prec` bits.
+    fn from_i64(n: i64, prec: u32) -> Self;
+    /// An integer at the precision of `self`.
+    fn int_like(&self, n: i64) -> Self {
+        Self::from_i64(n, self.prec())
+    }
+    /// π at the precision of `self`.
+    fn pi_like(&self) -> Self;
+    /// The imaginary unit at the precision of `self`.
+    fn i_like(&self) -> Self;
+    fn exp(&self) -> Self;
+    /// Principal logarithm.
+    fn ln(&self) -> Self;
+    /// Principal square root.
+    fn sqrt(&self) -> Self;
+    /// Integer power (negative allowed).
+    fn powi(&self, n: i64) -> Self;
+    fn conj(&self) -> Self;
+    /// |z| rounded to f64.
+    fn abs_f64(&self) -> f64;
+    /// Re z rounded to f64.
+    fn re_f64(&self) -> f64;
+    /// Im z rounded to f64.
+    fn im_f64(&self) -> f64;
+    /// z rounded to `Complex64`.
+    fn to_c64(&self) -> Complex64 {
+        Complex64::new(self.re_f64(), self.im_f64())
+    }
+}
+
+impl CNum for Complex64 {
+    fn prec(&self) -> u32 {
+        53
+    }
+    fn from_f64s(re: f64, im: f64, _prec: u32) -> Self {
+        Complex64::new(re, im)
+    }
+    fn from_i64(n: i64, _prec: u32) -> Self {
+        Complex64::new(n as f64, 0.0)
+    }
+    fn pi_like(&self) -> Self {
+        Complex64::new(std::f64::consts::PI, 0.0)
+    }
+    fn i_like(&self) -> Self {
+        Complex64::new(0.0, 1.0)
+    }
+    fn exp(&self) -> Self {
+        Complex64::exp(*self)
+    }
+    fn ln(&self) -> Self {
+        Complex64::ln(*self)
+    }
+    fn sqrt(&self) -> Self {
+        Complex64::sqrt(*self)
+    }
+    fn powi(&self, n: i64) -> Self {
+        Complex64::powi(self, n as i32)
+    }
+    fn conj(&self) -> Self {
+        Complex64::conj(self)
+    }
+    fn abs_f64(&self) -> f64 {
+        self.norm()
+    }
+    fn re_f64(&self) -> f64 {
+        self.re
+    }
+    fn im_f64(&self) -> f64 {
+        self.im
+    }
+}
+
+impl CNum for Complex {
+    fn prec(&self) -> u32 {
+        self.prec().0
+    }
+    fn from_f64s(re: f64, im: f64, prec: u32) -> Self {
+        Complex::with_val(prec, (re, im))
+    }
+    fn from_i64(n: i64, prec: u32) -> Self {
+        Complex::with_val(prec, n)
+    }
+    fn pi_like(&self) -> Self {
+        let p = CNum::prec(self);
+        Complex::with_val(p, Float::with_val(p, Constant::Pi))
+    }
+    fn i_like(&self) -> Self {
+        Complex::with_val(CNum::prec(self), (0, 1))
+    }
+    fn exp(&self) -> Self {
+        self.clone().exp()
+    }
+    fn ln(&self) -> Self {
+        self.clone().ln()
+    }
+    fn sqrt(&self) -> Self {
+        self.clone().sqrt()
+    }
+    fn powi(&self, n: i64) -> Self {
+        let p = CNum::prec(self);
+        Complex::with_val(p, self.pow(n))
+    }
+    fn conj(&self) -> Self {
+        self.clone().conj()
+    }
+    fn abs_f64(&self) -> f64 {
+        Float::with_val(CNum::prec(self), self.abs_ref()).to_f64()
+    }
+    fn re_f64(&self) -> f64 {
+        self.real().to_f64()
+    }
+    fn im_f64(&self) -> f64 {
+        self.imag().to_f64()
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn euler_identity<T: CNum>(one: T) -> f64 {
+        // e^{iπ} + 1 = 0 (Handbook of Mathematical Functions (1964) 4.3.1 with z = iπ).
+        let z = one.i_like() * one.pi_like();
+        (z.exp() + one.int_like(1)).abs_f64()
+    }
+
+    #[test]
+    fn one_algorithm_two_precisions() {
+        assert!(euler_identity(Complex64::new(1.0, 0.0)) < 1e-15);
+        let e = euler_identity(Complex::with_val(256, 1));
+        assert!(e < 1e-75, "{e}");
+    }
+
+    #[test]
+    fn constants_follow_the_precision() {
+        let x = Complex::with_val(300, 1);
+        assert_eq!(CNum::prec(&x.pi_like()), 300);
+        let p = x.pi_like().sqrt().powi(2) - x.pi_like();
+        assert!(p.abs_f64() < 1e-88);
+    }
+}

@@ -1,0 +1,141 @@
+//! Turning a command-line selection into the mathematics: a catalogue id or a vertex list
+//! (with optional coefficients) becomes the strip polygon and the tempered φ actually used;
+//! level ranges `A..B` / `n` become inclusive ranges.
+//!
+//! # Conventions
+//! A vertex list already in strip form is used as given; otherwise it is replaced by the strip
+//! form [`Polygon::strip_form`] finds, and the GL₂(Z) matrix is reported. The spectrum does not
+//! depend on that choice (GL₂(Z) acts by metaplectic unitaries or antiunitaries).
+//!
+//! # Errors
+//! [`SelectionError`], wrapping the polygon, catalogue and coefficient errors, plus malformed
+//! level ranges.
+
+use crate::catalogue::{self, CatalogueError, Family};
+use crate::laurent::{self, Laurent, LaurentError};
+use crate::polygon::{self, Mat2, Polygon, PolygonError};
+use std::ops::RangeInclusive;
+use thiserror::Error;
+
+/// A selection that cannot be used.
+#[derive(Debug, Clone, PartialEq, Eq, Error)]
+#[non_exhaustive]
+pub enum SelectionError {
+    #[error(transparent)]
+    Polygon(#[from] PolygonError),
+    #[error(transparent)]
+    Catalogue(#[from] CatalogueError),
+    #[error(transparent)]
+    Laurent(#[from] LaurentError),
+    #[error("give either --family or --vertices, not both")]
+    Ambiguous,
+    #[error("give --family ID or --vertices \"(1,0),(0,1),(-1,-1)\"")]
+    Missing,
+    #[error("cannot read the level range {text:?}: {reason}; use A..B (inclusive, A ≤ B) or a single level n")]
+    Levels { text: String, reason: String },
+}
+
+/// The family and polynomial a command works on.
+#[derive(Debug, Clone)]
+pub struct Selection {
+    /// The catalogue entry of the polygon's class.
+    pub family: &'static Family,
+    /// The strip polygon used.
+    pub polygon: Polygon,
+    /// The tempered φ on it.
+    pub laurent: Laurent,
+    /// The GL₂(Z) matrix applied to the user's vertices, if any.
+    pub transform: Option<Mat2>,
+}
+
+/// Resolves `--family` / `--vertices` / `--coefficients`.
+///
+/// # Errors
+/// See [`SelectionError`].
+pub fn resolve(family: Option<&str>, vertices: Option<&str>, coefficients: Option<&str>) -> Result<Selection, SelectionError> {
+    let (family, polygon, transform) = match (family, vertices) {
+        (Some(_), Some(_)) => return Err(SelectionError::Ambiguous),
+        (None, None) => return Err(SelectionError::Missing),
+        (Some(id), None) => {
+            let f = catalogue::by_id(id)?;
+            if !f.applicable {
+                return Err(CatalogueError::NotApplicable { id: f.id, reason: f.reason.unwrap_or("no strip form") }.into());
+            }
+            (f, f.polygon(), None)
+        }
+        (None, Some(text)) => {
+            let points = polygon::parse_vertices(text)?;
+            let p = Polygon::from_points(&points)?;
+            p.check_reflexive()?;
+            let (p, transform) = if p.is_strip() {
+                (p, None)
+            } else {
+                let (m, q) = p.strip_form()?;
+                (q, Some(m))
+            };
+            let f = catalogue::identify(&p).expect("every reflexive polygon is in the catalogue");
+            (f, p, transform)
+        }
+    };
+    let laurent = match coefficients {
+        None => Laurent::tempered(&polygon),
+        Some(text) => {
+            let given = laurent::parse_coefficients(text)?;
+            let given = match transform {
+                None => given,
+                Some(m) => given.into_iter().map(|(pt, c)| (apply(&m, pt), c)).collect(),
+            };
+            Laurent::with_coefficients(&polygon, &given)?
+        }
+    };
+    Ok(Selection { family, polygon, laurent, transform })
+}
+
+fn apply(m: &Mat2, p: [i64; 2]) -> [i64; 2] {
+    [m[0][0] * p[0] + m[0][1] * p[1], m[1][0] * p[0] + m[1][1] * p[1]]
+}
+
+/// Parses `A..B` (inclusive) or `n`.
+///
+/// # Errors
+/// [`SelectionError::Levels`] for malformed, negative, empty or reversed ranges.
+pub fn parse_levels(text: &str) -> Result<RangeInclusive<usize>, SelectionError> {
+    let err = |reason: &str| SelectionError::Levels { text: text.to_string(), reason: reason.to_string() };
+    let t = text.trim();
+    let num = |s: &str| s.trim().parse::<usize>().map_err(|_| err(&format!("{:?} is not a level (a whole number ≥ 0)", s.trim())));
+    let (a, b) = match t.split_once("..") {
+        Some((a, b)) => {
+            let b = b.strip_prefix('=').unwrap_or(b);
+            if a.trim().is_empty() || b.trim().is_empty() {
+                return Err(err("both ends are needed"));
+            }
+            (num(a)?, num(b)?)
+        }
+        None => {
+            let n = num(t)?;
+            (n, n)
+        }
+    };
+    if a > b {
+        return Err(err("the range is reversed"));
+    }
+    if b > 10_000 {
+        return Err(err("levels above 10000 are not supported"));
+    }
+    Ok(a..=b)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn level_ranges() {
+        assert_eq!(parse_levels("0..5").unwrap(), 0..=5);
+        assert_eq!(parse_levels("3").unwrap(), 3..=3);
+        assert_eq!(parse_levels(" 2..=4 ").unwrap(), 2..=4);
+        for bad in ["5..2", "", "a..b", "-1..3", "1..", "..3", "1.5"] {
+            assert!(parse_levels(bad).is_err(), "{bad:?}");
+        }
+    }
+}

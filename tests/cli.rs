@@ -1,0 +1,115 @@
+//! The command line: outputs a user relies on, and bad input answered with a clear message on
+//! stderr and exit code 2, never a panic.
+
+use std::process::{Command, Output};
+
+fn regwave(args: &[&str]) -> Output {
+    Command::new(env!("CARGO_BIN_EXE_regwave")).args(args).output().expect("run regwave")
+}
+
+fn stderr(o: &Output) -> String {
+    String::from_utf8_lossy(&o.stderr).into_owned()
+}
+
+/// Bad input: exit code 2, a message containing `needle`, no panic.
+fn rejects(args: &[&str], needle: &str) {
+    let o = regwave(args);
+    let e = stderr(&o);
+    assert_eq!(o.status.code(), Some(2), "{args:?}: exit {:?}, stderr {e}", o.status.code());
+    assert!(e.contains(needle), "{args:?}: stderr lacks {needle:?}: {e}");
+    assert!(!e.contains("panicked"), "{args:?} panicked: {e}");
+}
+
+#[test]
+fn families_lists_fifteen_plus_one() {
+    let o = regwave(&["families", "--json"]);
+    assert!(o.status.success(), "{}", stderr(&o));
+    let v: serde_json::Value = serde_json::from_slice(&o.stdout).unwrap();
+    let fams = v["families"].as_array().unwrap();
+    assert_eq!(fams.len(), 16);
+    assert_eq!(fams.iter().filter(|f| f["applicable"] == true).count(), 15);
+    for f in fams {
+        for key in ["id", "vertices", "boundary_points", "applicable", "phi"] {
+            assert!(f.get(key).is_some(), "missing {key} in {f}");
+        }
+    }
+    let f0 = fams.iter().find(|f| f["id"] == "F0").unwrap();
+    assert_eq!(f0["boundary_points"], 4);
+    let table = regwave(&["families"]);
+    let text = String::from_utf8_lossy(&table.stdout);
+    assert!(text.contains("not applicable"), "{text}");
+}
+
+#[test]
+fn spectrum_json_contract() {
+    let o = regwave(&["spectrum", "--family", "F0", "--levels", "0..1", "--basis", "80", "--json"]);
+    assert!(o.status.success(), "{}", stderr(&o));
+    let v: serde_json::Value = serde_json::from_slice(&o.stdout).unwrap();
+    for key in ["family", "eigenvalues", "tool_version", "inputs", "elapsed_s", "precision_bits"] {
+        assert!(v.get(key).is_some(), "missing {key}");
+    }
+    let ev = v["eigenvalues"].as_array().unwrap();
+    assert_eq!(ev.len(), 2);
+    for e in ev {
+        assert!(e["value"].is_string() && e["error_estimate"].is_string() && e["level"].is_u64());
+    }
+    let a0: f64 = ev[0]["value"].as_str().unwrap().parse().unwrap();
+    assert!((a0 - 17.8466).abs() < 1e-3, "{a0}");
+}
+
+#[test]
+fn spectrum_from_vertices_matches_the_family() {
+    // A GL₂(Z) image of P2 that is not in strip form: identified and mapped to a strip form.
+    let o = regwave(&["spectrum", "--vertices", "(1,0),(1,3),(-2,-3)", "--levels", "0", "--basis", "60", "--json"]);
+    assert!(o.status.success(), "{}", stderr(&o));
+    let v: serde_json::Value = serde_json::from_slice(&o.stdout).unwrap();
+    assert_eq!(v["family"], "P2");
+}
+
+#[test]
+fn bad_vertex_lists() {
+    rejects(&["spectrum", "--vertices", "(0,0),(1,1),(2,2)", "--levels", "0"], "do not span a polygon");
+    rejects(&["spectrum", "--vertices", "(1,0)", "--levels", "0"], "do not span a polygon");
+    // Two interior points: the triangle (−1,−1), (3,−1), (−1,2) contains (0,0) and (1,0).
+    rejects(&["spectrum", "--vertices", "(-1,-1),(3,-1),(-1,2)", "--levels", "0"], "not reflexive");
+    rejects(&["spectrum", "--vertices", "(1,0),(0,1),(-1,", "--levels", "0"], "cannot read vertices");
+    rejects(&["spectrum", "--vertices", "(a,b),(0,1),(-1,-1)", "--levels", "0"], "cannot read vertices");
+}
+
+#[test]
+fn width_three_triangle_has_no_strip_form() {
+    rejects(&["spectrum", "--vertices", "(2,-1),(-1,2),(-1,-1)", "--levels", "0"], "strip form");
+    rejects(&["spectrum", "--family", "P2*", "--levels", "0"], "not applicable");
+}
+
+#[test]
+fn non_binomial_coefficients_are_not_tempered() {
+    rejects(&["spectrum", "--family", "dP3", "--coefficients", "(1,0)=2", "--levels", "0"], "not tempered");
+    rejects(&["spectrum", "--family", "F0", "--coefficients", "(0,0)=1", "--levels", "0"], "constant term");
+}
+
+#[test]
+fn unknown_family_and_bad_ranges() {
+    rejects(&["spectrum", "--family", "K3", "--levels", "0"], "unknown family");
+    rejects(&["spectrum", "--family", "F0", "--levels", "5..2"], "reversed");
+    rejects(&["spectrum", "--family", "F0", "--levels", "x"], "level range");
+    rejects(&["spectrum", "--family", "F0", "--digits", "3"], "--digits 3");
+    rejects(&["spectrum", "--levels", "0"], "--family");
+    rejects(&["spectrum", "--family", "F0", "--vertices", "(1,0),(0,1),(-1,-1)"], "not both");
+}
+
+#[test]
+fn tour_writes_its_files() {
+    let dir = std::env::temp_dir().join(format!("regwave-tour-{}", std::process::id()));
+    let o = regwave(&["tour", "--out", dir.to_str().unwrap()]);
+    assert!(o.status.success(), "{}", stderr(&o));
+    for f in ["report.md", "families.json", "families.txt", "spectrum-F0.json", "spectrum-P2.json", "spectrum-dP3.json"] {
+        assert!(dir.join(f).is_file(), "missing {f}");
+    }
+    let _ = std::fs::remove_dir_all(&dir);
+}
+
+#[test]
+fn unwritable_output_is_a_clear_error() {
+    rejects(&["tour", "--out", "/proc/regwave-cannot-write-here"], "cannot");
+}
