@@ -14,6 +14,7 @@
 //! - [`operator`]: the quantum curve at ħ = 2π in shift form.
 //! - [`spectrum`]: the independent harmonic-oscillator diagonalization.
 //! - [`numeric`]: the small complex-number trait shared by the f64 and MPFR paths.
+//! - [`quad`]: Gauss–Legendre rules at any precision, cached.
 //! - [`precision`]: digits ↔ bits, guard bits and tolerances in one place.
 //! - [`selection`]: command-line selections (family id or vertices, level ranges) resolved.
 //! - [`report`]: JSON documents and human tables (pure formatting, no I/O).
@@ -24,6 +25,7 @@ pub mod numeric;
 pub mod operator;
 pub mod polygon;
 pub mod precision;
+pub mod quad;
 pub mod recurrence;
 pub mod report;
 pub mod selection;
