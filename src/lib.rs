@@ -13,6 +13,7 @@
 //! - [`recurrence`]: the P-recursive recurrence satisfied by `[φⁿ]₀`, guessed and checked exactly.
 //! - [`operator`]: the quantum curve at ħ = 2π in shift form.
 //! - [`spectrum`]: the independent harmonic-oscillator diagonalization.
+//! - [`cover`]: the double cover over the z-plane, branch points, root continuation.
 //! - [`numeric`]: the small complex-number trait shared by the f64 and MPFR paths.
 //! - [`quad`]: Gauss–Legendre rules at any precision, cached.
 //! - [`precision`]: digits ↔ bits, guard bits and tolerances in one place.
@@ -20,6 +21,7 @@
 //! - [`report`]: JSON documents and human tables (pure formatting, no I/O).
 
 pub mod catalogue;
+pub mod cover;
 pub mod laurent;
 pub mod numeric;
 pub mod operator;
