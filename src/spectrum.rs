@@ -351,8 +351,9 @@ fn working_bits(terms: &[OscTerm], n: usize, threshold: f64, digits: u32) -> u32
     with_guard(cond_bits.max(0.0).ceil() as u32 + bits_for_digits(digits as f64))
 }
 
-/// The N×N section of Ô in the frame's oscillator basis.
-fn assemble(terms: &[OscTerm], n: usize, prec: u32) -> HermitianMatrix {
+/// The N×N section of Ô in the frame's oscillator basis. With `real` (the frame has a mirror
+/// symmetry, so the imaginary parts cancel identically in pairs) only the real part is formed.
+fn assemble(terms: &[OscTerm], n: usize, prec: u32, real: bool) -> HermitianMatrix {
     let zero = Float::new(prec);
     let mut re = vec![zero.clone(); n * n];
     let mut im = vec![zero.clone(); n * n];
@@ -390,8 +391,10 @@ fn assemble(terms: &[OscTerm], n: usize, prec: u32) -> HermitianMatrix {
                 // of a mirror pair cancel exactly. ⟨k|·|j⟩ carries e^{iθ(k−j)}.
                 scratch.assign(&row[k] * &wc[d]);
                 re[idx] += &scratch;
-                scratch.assign(&row[k] * &ws[d]);
-                im[idx] += &scratch;
+                if !real {
+                    scratch.assign(&row[k] * &ws[d]);
+                    im[idx] += &scratch;
+                }
             }
             if j + 1 == n {
                 break;
@@ -407,7 +410,7 @@ fn assemble(terms: &[OscTerm], n: usize, prec: u32) -> HermitianMatrix {
         any_imag |= !t.theta.is_zero();
     }
     // Real symmetric when the imaginary parts cancel exactly (mirror-symmetric frames).
-    if !any_imag || im.iter().all(|x| x.is_zero()) {
+    if real || !any_imag || im.iter().all(|x| x.is_zero()) {
         im.clear();
     }
     HermitianMatrix { n, re, im }
@@ -790,7 +793,7 @@ fn solve_basis(laurent: &Laurent, frame: &Frame, n: usize, count: usize, digits:
     let probe = frame.terms(laurent, 64);
     let bits = working_bits(&probe, n, frame.threshold, digits);
     let terms = frame.terms(laurent, bits);
-    let mut h = assemble(&terms, n, bits);
+    let mut h = assemble(&terms, n, bits, frame.mirror.is_some());
     let real = h.is_real();
     cholesky(&mut h, bits)?;
     let e = lowest_eigenpairs(&h, count, digits, bits)?;
@@ -866,7 +869,7 @@ pub fn trace_of_inverse_powers(laurent: &Laurent, basis: usize, digits: u32) -> 
     let probe = frame.terms(laurent, 64);
     let bits = working_bits(&probe, basis, frame.threshold, digits);
     let terms = frame.terms(laurent, bits);
-    let mut h = assemble(&terms, basis, bits);
+    let mut h = assemble(&terms, basis, bits, frame.mirror.is_some());
     cholesky(&mut h, bits)?;
     let n = basis;
     // Columns of L⁻¹: solve L y = e_k.

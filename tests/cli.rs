@@ -60,7 +60,7 @@ fn spectrum_json_contract() {
 #[test]
 fn spectrum_from_vertices_matches_the_family() {
     // A GL₂(Z) image of P2 that is not in strip form: identified and mapped to a strip form.
-    let o = regwave(&["spectrum", "--vertices", "(1,0),(1,3),(-2,-3)", "--levels", "0", "--basis", "60", "--json"]);
+    let o = regwave(&["spectrum", "--vertices", "(2,1),(1,1),(-3,-2)", "--levels", "0", "--basis", "60", "--json"]);
     assert!(o.status.success(), "{}", stderr(&o));
     let v: serde_json::Value = serde_json::from_slice(&o.stdout).unwrap();
     assert_eq!(v["family"], "P2");
