@@ -7,7 +7,8 @@ use regwave::spectrum::{self, SpectrumOptions};
 use std::time::Instant;
 
 fn main() {
-    println!("target: spectrum with basis 200 under 2 s per family (levels 0..5, N = 200 only)");
+    println!("target: spectrum with basis 200 under 2 s per family (levels 0..5)");
+    println!("  (each row: `spectrum --basis 200`, i.e. N = 200 and its 3N/2 = 300 convergence check)");
     let mut worst: f64 = 0.0;
     for f in catalogue::all().iter().filter(|f| f.applicable) {
         let laurent = Laurent::tempered(&f.polygon());

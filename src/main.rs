@@ -58,8 +58,8 @@ struct SpectrumArgs {
     /// Basis size N: solve at N and 3N/2 only (default: adaptive from 200 up to --max-basis).
     #[arg(long)]
     basis: Option<usize>,
-    /// Largest basis of the adaptive ladder 200, 300, 450, ...
-    #[arg(long, default_value_t = 450)]
+    /// Largest basis of the adaptive ladder 200, 300, 450, 675, 1013, ... (it stops once the digits are reached)
+    #[arg(long, default_value_t = 1013)]
     max_basis: usize,
     /// Decimal digits wanted.
     #[arg(long, default_value_t = 16)]

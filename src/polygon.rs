@@ -80,6 +80,10 @@ pub enum PolygonError {
     /// A coordinate (of the input, or of a computed image) exceeds [`MAX_COORDINATE`].
     #[error("the point {point:?} has a coordinate of absolute value above {bound}; coordinates are bounded so that exact 64-bit arithmetic cannot overflow")]
     CoordinateTooLarge { point: [i128; 2], bound: i64 },
+    /// A vertex list with a point strictly inside the hull of the others: the list does not
+    /// describe a convex polygon.
+    #[error("the vertex list is not convex: {point:?} lies strictly inside the polygon spanned by the other points")]
+    NotConvex { point: LatticePoint },
     /// Not reflexive, with more interior points than [`INTERIOR_LIST_LIMIT`] (not listed).
     #[error("not reflexive: a reflexive polygon has exactly one interior lattice point, this one has {count} (too many to list)")]
     TooManyInteriorPoints { count: u64 },
@@ -121,6 +125,21 @@ impl Polygon {
             return Err(PolygonError::Degenerate { points: distinct });
         }
         Ok(Polygon { vertices })
+    }
+
+    /// The convex polygon of a user's *vertex list*: any order, duplicates and points on the
+    /// edges allowed, but a point strictly inside is an error (the list is then not the vertex
+    /// list of a convex polygon).
+    ///
+    /// # Errors
+    /// As [`Polygon::from_points`], and [`PolygonError::NotConvex`].
+    pub fn from_vertex_list(points: &[LatticePoint]) -> Result<Self, PolygonError> {
+        let p = Polygon::from_points(points)?;
+        let boundary = p.boundary_points();
+        if let Some(q) = points.iter().find(|q| !boundary.contains(q)) {
+            return Err(PolygonError::NotConvex { point: *q });
+        }
+        Ok(p)
     }
 
     /// The vertices, counter-clockwise, starting at the lexicographically smallest.

@@ -65,7 +65,7 @@ pub fn resolve(family: Option<&str>, vertices: Option<&str>, coefficients: Optio
         }
         (None, Some(text)) => {
             let points = polygon::parse_vertices(text)?;
-            let p = Polygon::from_points(&points)?;
+            let p = Polygon::from_vertex_list(&points)?;
             p.check_reflexive()?;
             let (p, transform) = if p.is_strip() {
                 (p, None)

@@ -46,6 +46,7 @@
 use crate::laurent::Laurent;
 use crate::precision::{bits_for_digits, with_guard};
 use num_complex::Complex64;
+use rayon::prelude::*;
 use rug::float::Constant;
 use rug::ops::CompleteRound;
 use rug::{Assign, Float};
@@ -417,44 +418,46 @@ fn assemble(terms: &[OscTerm], n: usize, prec: u32, real: bool) -> HermitianMatr
 }
 
 /// In-place Cholesky: the lower triangle becomes L with `H = L Lᴴ`, L_ii real positive.
+/// The rows below each pivot are updated in parallel (they are independent).
 fn cholesky(h: &mut HermitianMatrix, prec: u32) -> Result<(), SpectrumError> {
     let n = h.n;
     let real = h.is_real();
-    let mut acc_re = Float::new(prec);
-    let mut acc_im = Float::new(prec);
     for j in 0..n {
-        // Diagonal.
-        acc_re.assign_from(&h.re[j * n + j]);
+        let mut pivot = h.re[j * n + j].clone();
         for k in 0..j {
-            acc_re -= &h.re[j * n + k] * &h.re[j * n + k];
+            pivot -= &h.re[j * n + k] * &h.re[j * n + k];
             if !real {
-                acc_re -= &h.im[j * n + k] * &h.im[j * n + k];
+                pivot -= &h.im[j * n + k] * &h.im[j * n + k];
             }
         }
-        if acc_re <= 0 {
+        if pivot <= 0 {
             return Err(SpectrumError::PrecisionTooLow { pivot: j, bits: prec });
         }
-        acc_re.sqrt_mut();
-        h.re[j * n + j].assign_from(&acc_re);
-        if !real {
-            h.im[j * n + j] = Float::new(prec);
-        }
-        let inv = Float::with_val(prec, acc_re.recip_ref());
-        for i in (j + 1)..n {
-            let (ri, rj) = (i * n, j * n);
-            acc_re.assign_from(&h.re[ri + j]);
-            if real {
-                for k in 0..j {
-                    acc_re -= &h.re[ri + k] * &h.re[rj + k];
+        pivot.sqrt_mut();
+        let inv = Float::with_val(prec, pivot.recip_ref());
+        h.re[j * n + j] = pivot;
+        let (upper_re, lower_re) = h.re.split_at_mut((j + 1) * n);
+        let row_j_re = &upper_re[j * n..j * n + j];
+        if real {
+            lower_re.par_chunks_mut(n).with_min_len(4).for_each(|row| {
+                let mut acc = row[j].clone();
+                for (a, c) in row[..j].iter().zip(row_j_re) {
+                    acc -= a * c;
                 }
-                acc_re *= &inv;
-                h.re[ri + j].assign_from(&acc_re);
-            } else {
-                acc_im.assign_from(&h.im[ri + j]);
+                acc *= &inv;
+                row[j] = acc;
+            });
+        } else {
+            h.im[j * n + j] = Float::new(prec);
+            let (upper_im, lower_im) = h.im.split_at_mut((j + 1) * n);
+            let row_j_im = &upper_im[j * n..j * n + j];
+            lower_re.par_chunks_mut(n).zip(lower_im.par_chunks_mut(n)).with_min_len(4).for_each(|(rr, ri)| {
+                let mut acc_re = rr[j].clone();
+                let mut acc_im = ri[j].clone();
                 for k in 0..j {
                     // L_ik · conj(L_jk) = (a + ib)(c − id) = (ac + bd) + i(bc − ad).
-                    let (a, b) = (&h.re[ri + k], &h.im[ri + k]);
-                    let (c, d) = (&h.re[rj + k], &h.im[rj + k]);
+                    let (a, b) = (&rr[k], &ri[k]);
+                    let (c, d) = (&row_j_re[k], &row_j_im[k]);
                     acc_re -= a * c;
                     acc_re -= b * d;
                     acc_im -= b * c;
@@ -462,9 +465,9 @@ fn cholesky(h: &mut HermitianMatrix, prec: u32) -> Result<(), SpectrumError> {
                 }
                 acc_re *= &inv;
                 acc_im *= &inv;
-                h.re[ri + j].assign_from(&acc_re);
-                h.im[ri + j].assign_from(&acc_im);
-            }
+                rr[j] = acc_re;
+                ri[j] = acc_im;
+            });
         }
     }
     Ok(())
@@ -584,60 +587,101 @@ fn inner(ar: &[Float], ai: &[Float], br: &[Float], bi: &[Float], prec: u32) -> (
     (re, im)
 }
 
-/// Cyclic Jacobi for a real symmetric matrix (row-major, m×m): eigenvalues and eigenvector
-/// columns (row-major m×m), at `prec` bits. Rotations are skipped when |a_pq| is below the
-/// working precision relative to the diagonal ("Matrix Computations", 4th ed., §8.5).
-fn jacobi(mut a: Vec<Float>, m: usize, prec: u32) -> (Vec<Float>, Vec<Float>) {
-    let mut v: Vec<Float> = (0..m * m).map(|i| Float::with_val(prec, (i / m == i % m) as u32)).collect();
+/// Eigenpairs of the b×b Hermitian matrix T (re, im row-major), largest eigenvalue first, by
+/// the cyclic complex Jacobi method at `prec` bits: each rotation first removes the phase of
+/// T_pq with a diagonal unitary, then applies the real rotation that zeroes it ("Matrix
+/// Computations", 4th ed., §8.5). Rotations are skipped when |T_pq| is below the working
+/// precision relative to the diagonal. A real T costs no complex arithmetic.
+fn hermitian_eigen(tr: &[Float], ti: &[Float], b: usize, prec: u32) -> Vec<(Float, Vec<Float>, Vec<Float>)> {
+    let mut ar = tr.to_vec();
+    let mut ai = ti.to_vec();
+    let real = ai.iter().all(|x| x.is_zero());
+    let mut vr: Vec<Float> = (0..b * b).map(|i| Float::with_val(prec, (i / b == i % b) as u32)).collect();
+    let mut vi: Vec<Float> = vec![Float::new(prec); b * b];
     let eps = Float::with_val(prec, Float::i_exp(1, 8 - prec as i32));
-    let (mut tau, mut root, mut t, mut c, mut s) =
-        (Float::new(prec), Float::new(prec), Float::new(prec), Float::new(prec), Float::new(prec));
-    let (mut x, mut y, mut bound) = (Float::new(prec), Float::new(prec), Float::new(prec));
+    let mut f = [Float::new(prec), Float::new(prec), Float::new(prec), Float::new(prec), Float::new(prec)];
+    let (mut x, mut y, mut modulus, mut bound) = (Float::new(prec), Float::new(prec), Float::new(prec), Float::new(prec));
+    // (u_i, u_j) ← (c u_i − s u_j, s u_i + c u_j) for real c, s.
+    fn rotate(m: &mut [Float], i: usize, j: usize, c: &Float, s: &Float, x: &mut Float, y: &mut Float) {
+        x.assign(c * &m[i]);
+        *x -= s * &m[j];
+        y.assign(s * &m[i]);
+        *y += c * &m[j];
+        std::mem::swap(&mut m[i], x);
+        std::mem::swap(&mut m[j], y);
+    }
+    // (re, im) of entry k ← (re, im) · (cr + i ci).
+    fn phase(re: &mut [Float], im: &mut [Float], k: usize, cr: &Float, ci: &Float, x: &mut Float, y: &mut Float) {
+        x.assign(&re[k] * cr);
+        *x -= &im[k] * ci;
+        y.assign(&re[k] * ci);
+        *y += &im[k] * cr;
+        std::mem::swap(&mut re[k], x);
+        std::mem::swap(&mut im[k], y);
+    }
     for _sweep in 0..60 {
         let mut rotated = false;
-        for p in 0..m {
-            for q in (p + 1)..m {
-                bound.assign(a[p * m + p].abs_ref());
-                bound = bound.max(&Float::with_val(prec, a[q * m + q].abs_ref()));
+        for p in 0..b {
+            for q in (p + 1)..b {
+                let (pq, pp, qq) = (p * b + q, p * b + p, q * b + q);
+                modulus.assign(ar[pq].hypot_ref(&ai[pq]));
+                bound.assign(ar[pp].abs_ref());
+                bound = bound.max(&Float::with_val(prec, ar[qq].abs_ref()));
                 bound *= &eps;
-                if Float::with_val(prec, a[p * m + q].abs_ref()) <= bound {
+                if modulus <= bound {
                     continue;
                 }
                 rotated = true;
-                tau.assign(&a[q * m + q] - &a[p * m + p]);
-                x.assign(&a[p * m + q] * 2u32);
-                tau /= &x;
+                if !real && !ai[pq].is_zero() {
+                    // e^{iφ} = T_pq/|T_pq|: column q times e^{−iφ}, row q times e^{iφ}.
+                    let cr = Float::with_val(prec, &ar[pq] / &modulus);
+                    let ci = Float::with_val(prec, &ai[pq] / &modulus);
+                    let mci = Float::with_val(prec, -&ci);
+                    for k in 0..b {
+                        phase(&mut ar, &mut ai, k * b + q, &cr, &mci, &mut x, &mut y);
+                        phase(&mut vr, &mut vi, k * b + q, &cr, &mci, &mut x, &mut y);
+                    }
+                    for k in 0..b {
+                        phase(&mut ar, &mut ai, q * b + k, &cr, &ci, &mut x, &mut y);
+                    }
+                    ar[pq].assign(&modulus);
+                    ar[q * b + p].assign(&modulus);
+                    ai[pq] = Float::new(prec);
+                    ai[q * b + p] = Float::new(prec);
+                    ai[qq] = Float::new(prec);
+                }
+                let [tau, root, t, c, s] = &mut f;
+                tau.assign(&ar[qq] - &ar[pp]);
+                // T_pq is real now (signed when T was real).
+                x.assign(&ar[pq] * 2u32);
+                *tau /= &x;
                 root.assign(tau.square_ref());
-                root += 1u32;
+                *root += 1u32;
                 root.sqrt_mut();
-                if tau >= 0 {
-                    t.assign(&tau + &root);
+                if *tau >= 0 {
+                    t.assign(&*tau + &*root);
                 } else {
-                    t.assign(&tau - &root);
+                    t.assign(&*tau - &*root);
                 }
                 t.recip_mut();
                 c.assign(t.square_ref());
-                c += 1u32;
+                *c += 1u32;
                 c.sqrt_mut();
                 c.recip_mut();
-                s.assign(&t * &c);
-                let rotate = |mat: &mut Vec<Float>, i: usize, j: usize, x: &mut Float, y: &mut Float| {
-                    // (mat_i, mat_j) ← (c·mat_i − s·mat_j, s·mat_i + c·mat_j)
-                    x.assign(&c * &mat[i]);
-                    *x -= &s * &mat[j];
-                    y.assign(&s * &mat[i]);
-                    *y += &c * &mat[j];
-                    std::mem::swap(&mut mat[i], x);
-                    std::mem::swap(&mut mat[j], y);
-                };
-                for k in 0..m {
-                    rotate(&mut a, k * m + p, k * m + q, &mut x, &mut y);
+                s.assign(&*t * &*c);
+                for k in 0..b {
+                    rotate(&mut ar, k * b + p, k * b + q, c, s, &mut x, &mut y);
+                    rotate(&mut vr, k * b + p, k * b + q, c, s, &mut x, &mut y);
+                    if !real {
+                        rotate(&mut ai, k * b + p, k * b + q, c, s, &mut x, &mut y);
+                        rotate(&mut vi, k * b + p, k * b + q, c, s, &mut x, &mut y);
+                    }
                 }
-                for k in 0..m {
-                    rotate(&mut a, p * m + k, q * m + k, &mut x, &mut y);
-                }
-                for k in 0..m {
-                    rotate(&mut v, k * m + p, k * m + q, &mut x, &mut y);
+                for k in 0..b {
+                    rotate(&mut ar, p * b + k, q * b + k, c, s, &mut x, &mut y);
+                    if !real {
+                        rotate(&mut ai, p * b + k, q * b + k, c, s, &mut x, &mut y);
+                    }
                 }
             }
         }
@@ -645,53 +689,16 @@ fn jacobi(mut a: Vec<Float>, m: usize, prec: u32) -> (Vec<Float>, Vec<Float>) {
             break;
         }
     }
-    let values = (0..m).map(|i| a[i * m + i].clone()).collect();
-    (values, v)
-}
-
-/// Eigenpairs of the b×b Hermitian matrix T (re, im row-major), largest eigenvalue first,
-/// through the real symmetric 2b×2b embedding `[[Re, −Im], [Im, Re]]` (each eigenvalue twice).
-fn hermitian_eigen(tr: &[Float], ti: &[Float], b: usize, prec: u32) -> Vec<(Float, Vec<Float>, Vec<Float>)> {
-    if ti.iter().all(|x| x.is_zero()) {
-        let (values, vecs) = jacobi(tr.to_vec(), b, prec);
-        let mut order: Vec<usize> = (0..b).collect();
-        order.sort_by(|&x, &y| values[y].partial_cmp(&values[x]).unwrap_or(std::cmp::Ordering::Equal));
-        return order
-            .into_iter()
-            .map(|c| (values[c].clone(), (0..b).map(|i| vecs[i * b + c].clone()).collect(), vec![Float::new(prec); b]))
-            .collect();
-    }
-    let m = 2 * b;
-    let mut a = vec![Float::new(prec); m * m];
-    for i in 0..b {
-        for j in 0..b {
-            a[i * m + j] = tr[i * b + j].clone();
-            a[(i + b) * m + (j + b)] = tr[i * b + j].clone();
-            a[i * m + (j + b)] = -ti[i * b + j].clone();
-            a[(i + b) * m + j] = ti[i * b + j].clone();
-        }
-    }
-    let (values, vecs) = jacobi(a, m, prec);
-    let mut order: Vec<usize> = (0..m).collect();
-    order.sort_by(|&x, &y| values[y].partial_cmp(&values[x]).unwrap_or(std::cmp::Ordering::Equal));
-    // Keep one of each doubled pair: greedily take a vector orthogonal (as a complex vector)
-    // to the ones already taken.
-    let mut out: Vec<(Float, Vec<Float>, Vec<Float>)> = Vec::new();
-    for &c in &order {
-        if out.len() == b {
-            break;
-        }
-        let vr: Vec<Float> = (0..b).map(|i| vecs[i * m + c].clone()).collect();
-        let vi: Vec<Float> = (0..b).map(|i| vecs[(i + b) * m + c].clone()).collect();
-        let duplicate = out.iter().any(|(_, pr, pi)| {
-            let (r, i) = inner(pr, pi, &vr, &vi, prec);
-            Float::with_val(prec, r.hypot_ref(&i)) > 0.5
-        });
-        if !duplicate {
-            out.push((values[c].clone(), vr, vi));
-        }
-    }
-    out
+    let mut order: Vec<usize> = (0..b).collect();
+    order.sort_by(|&i, &j| ar[j * b + j].partial_cmp(&ar[i * b + i]).unwrap_or(std::cmp::Ordering::Equal));
+    order
+        .into_iter()
+        .map(|c| {
+            let col_r = (0..b).map(|i| vr[i * b + c].clone()).collect();
+            let col_i = (0..b).map(|i| vi[i * b + c].clone()).collect();
+            (ar[c * b + c].clone(), col_r, col_i)
+        })
+        .collect()
 }
 
 /// The lowest `count` eigenpairs of `H = L Lᴴ` by block inverse iteration.
@@ -701,20 +708,60 @@ struct Eigenpairs {
     iterations: usize,
 }
 
-fn lowest_eigenpairs(l: &HermitianMatrix, count: usize, digits: u32, prec: u32) -> Result<Eigenpairs, SpectrumError> {
+fn lowest_eigenpairs(
+    l: &HermitianMatrix,
+    count: usize,
+    digits: u32,
+    prec: u32,
+    seed: Option<&Block>,
+) -> Result<Eigenpairs, SpectrumError> {
     let n = l.n;
     let b = (count + count / 2 + 4).min(n);
     let zero = Float::new(prec);
-    // Start from Z = Lᴴ e_k, i.e. X = e_k: the lowest oscillator states.
-    let mut z = Block { re: vec![vec![zero.clone(); n]; b], im: vec![vec![zero.clone(); n]; b] };
-    for k in 0..b {
-        for i in 0..=k {
-            z.re[k][i] = l.re[k * n + i].clone();
-            if !l.is_real() {
-                z.im[k][i] = -l.im[k * n + i].clone();
+    // X: the seed (eigenvectors of a smaller basis, padded) or the lowest oscillator states;
+    // Z = Lᴴ X, i.e. z_i = Σ_{k ≥ i} conj(L_ki) x_k.
+    let x: Vec<(Vec<Float>, Vec<Float>)> = (0..b)
+        .map(|c| {
+            let mut xr = vec![zero.clone(); n];
+            let mut xi = vec![zero.clone(); n];
+            match seed {
+                Some(s) if c < s.len() => {
+                    for (i, v) in s.re[c].iter().enumerate().take(n) {
+                        xr[i] = Float::with_val(prec, v);
+                        xi[i] = Float::with_val(prec, &s.im[c][i]);
+                    }
+                }
+                _ => xr[c] = Float::with_val(prec, 1),
             }
-        }
-    }
+            (xr, xi)
+        })
+        .collect();
+    let columns: Vec<(Vec<Float>, Vec<Float>)> = x
+        .par_iter()
+        .map(|(xr, xi)| {
+            let mut zr = vec![zero.clone(); n];
+            let mut zi = vec![zero.clone(); n];
+            for k in 0..n {
+                if xr[k].is_zero() && xi[k].is_zero() {
+                    continue;
+                }
+                for i in 0..=k {
+                    // conj(c + i d)(xr + i xi) = (c xr + d xi) + i(c xi − d xr)
+                    let c = &l.re[k * n + i];
+                    zr[i] += c * &xr[k];
+                    zi[i] += c * &xi[k];
+                    if !l.is_real() {
+                        let d = &l.im[k * n + i];
+                        zr[i] += d * &xi[k];
+                        zi[i] -= d * &xr[k];
+                    }
+                }
+            }
+            (zr, zi)
+        })
+        .collect();
+    let (re, im): (Vec<_>, Vec<_>) = columns.into_iter().unzip();
+    let mut z = Block { re, im };
     orthonormalize(&mut z, prec);
     let tol = 10f64.powi(-(digits as i32) - 6);
     let mut previous: Option<Vec<f64>> = None;
@@ -723,9 +770,7 @@ fn lowest_eigenpairs(l: &HermitianMatrix, count: usize, digits: u32, prec: u32) 
     for iter in 1..=max_iter {
         // W = L⁻ᴴ Z.
         let mut w = z.clone();
-        for k in 0..b {
-            solve_upper(l, &mut w.re[k], &mut w.im[k], prec);
-        }
+        w.re.par_iter_mut().zip(w.im.par_iter_mut()).for_each(|(r, i)| solve_upper(l, r, i, prec));
         // T = Wᴴ W = Zᴴ K Z.
         let mut tr = vec![zero.clone(); b * b];
         let mut ti = vec![zero.clone(); b * b];
@@ -764,16 +809,12 @@ fn lowest_eigenpairs(l: &HermitianMatrix, count: usize, digits: u32, prec: u32) 
                         *v *= &inv;
                     }
                 }
-                vectors.re.truncate(count);
-                vectors.im.truncate(count);
                 return Ok(Eigenpairs { values: values[..count].to_vec(), vectors, iterations: iter });
             }
         }
         previous = Some(approx);
         let mut next = x;
-        for k in 0..b {
-            solve_lower(l, &mut next.re[k], &mut next.im[k], prec);
-        }
+        next.re.par_iter_mut().zip(next.im.par_iter_mut()).for_each(|(r, i)| solve_lower(l, r, i, prec));
         orthonormalize(&mut next, prec);
         z = next;
     }
@@ -789,15 +830,40 @@ struct Solve {
     iterations: usize,
 }
 
-fn solve_basis(laurent: &Laurent, frame: &Frame, n: usize, count: usize, digits: u32) -> Result<Solve, SpectrumError> {
+fn solve_basis(
+    laurent: &Laurent,
+    frame: &Frame,
+    n: usize,
+    count: usize,
+    digits: u32,
+    seed: Option<&Block>,
+) -> Result<Solve, SpectrumError> {
     let probe = frame.terms(laurent, 64);
     let bits = working_bits(&probe, n, frame.threshold, digits);
     let terms = frame.terms(laurent, bits);
     let mut h = assemble(&terms, n, bits, frame.mirror.is_some());
     let real = h.is_real();
     cholesky(&mut h, bits)?;
-    let e = lowest_eigenpairs(&h, count, digits, bits)?;
+    let e = lowest_eigenpairs(&h, count, digits, bits, seed)?;
     Ok(Solve { values: e.values, vectors: e.vectors, bits, real, iterations: e.iterations })
+}
+
+/// The N×N truncated operator in the frame's oscillator basis, assembled at `bits` and
+/// rounded to f64 (for cross-checks with general-purpose linear algebra at small N).
+pub fn truncated_matrix_f64(laurent: &Laurent, frame: &Frame, n: usize, bits: u32) -> nalgebra::DMatrix<Complex64> {
+    let terms = frame.terms(laurent, bits);
+    let h = assemble(&terms, n, bits, frame.mirror.is_some());
+    nalgebra::DMatrix::from_fn(n, n, |i, j| {
+        let (r, c, sign) = if i >= j { (i, j, 1.0) } else { (j, i, -1.0) };
+        let im = if h.is_real() { 0.0 } else { h.im[r * n + c].to_f64() * sign };
+        Complex64::new(h.re[r * n + c].to_f64(), im)
+    })
+}
+
+/// Lowest eigenvalues of the N×N truncation by this module's own multiprecision solver (no
+/// convergence ladder): the counterpart of [`truncated_matrix_f64`].
+pub fn truncated_eigenvalues(laurent: &Laurent, frame: &Frame, n: usize, count: usize, digits: u32) -> Result<Vec<Float>, SpectrumError> {
+    Ok(solve_basis(laurent, frame, n, count, digits, None)?.values)
 }
 
 /// Minimum basis size for the levels wanted: the block iteration needs room above them.
@@ -826,12 +892,15 @@ pub fn solve(laurent: &Laurent, options: &SpectrumOptions) -> Result<Spectrum, S
     let count = hi + 1;
     let mut n = options.basis;
     let mut bases = vec![n];
-    let mut coarse = solve_basis(laurent, &frame, n, count, options.digits)?;
+    // A small basis first seeds the inverse iteration of the first real solve (fewer steps).
+    let pilot_n = (n / 3).max(needed);
+    let pilot = if pilot_n < n { Some(solve_basis(laurent, &frame, pilot_n, count, options.digits.min(12), None)?) } else { None };
+    let mut coarse = solve_basis(laurent, &frame, n, count, options.digits, pilot.as_ref().map(|p| &p.vectors))?;
     let target = 10f64.powi(-(options.digits as i32));
     let (best, errors) = loop {
         n = next_basis(n);
         bases.push(n);
-        let fine = solve_basis(laurent, &frame, n, count, options.digits)?;
+        let fine = solve_basis(laurent, &frame, n, count, options.digits, Some(&coarse.vectors))?;
         let errors: Vec<f64> = (0..count)
             .map(|k| Float::with_val(fine.bits, &coarse.values[k] - &fine.values[k]).to_f64().abs())
             .collect();
@@ -942,7 +1011,7 @@ mod tests {
         let frame = frame(&f0(), 1.0);
         let mut last: Option<Vec<Float>> = None;
         for n in [40usize, 60, 90] {
-            let v = solve_basis(&f0(), &frame, n, 3, 30).unwrap().values;
+            let v = solve_basis(&f0(), &frame, n, 3, 30, None).unwrap().values;
             if let Some(prev) = last {
                 for k in 0..3 {
                     assert!(v[k] < prev[k], "level {k}: N={n} gives {} ≥ {}", v[k], prev[k]);

@@ -70,6 +70,10 @@ fn spectrum_from_vertices_matches_the_family() {
 fn bad_vertex_lists() {
     rejects(&["spectrum", "--vertices", "(0,0),(1,1),(2,2)", "--levels", "0"], "do not span a polygon");
     rejects(&["spectrum", "--vertices", "(1,0)", "--levels", "0"], "do not span a polygon");
+    // Not convex: (0,0) lies strictly inside; duplicates and edge points are fine.
+    rejects(&["spectrum", "--vertices", "(1,0),(0,0),(0,1),(-1,-1)", "--levels", "0"], "not convex");
+    let o = regwave(&["spectrum", "--vertices", "(0,1),(-1,-1),(1,-1),(0,-1),(0,1)", "--levels", "0", "--basis", "40"]);
+    assert!(o.status.success(), "duplicates and edge points are allowed: {}", stderr(&o));
     // Two interior points: the triangle (−1,−1), (3,−1), (−1,2) contains (0,0) and (1,0).
     rejects(&["spectrum", "--vertices", "(-1,-1),(3,-1),(-1,2)", "--levels", "0"], "not reflexive");
     rejects(&["spectrum", "--vertices", "(1,0),(0,1),(-1,", "--levels", "0"], "cannot read vertices");

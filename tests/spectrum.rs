@@ -103,3 +103,39 @@ fn ground_state_wavefunction_is_normalized() {
     let (a, b) = (s.wavefunction(0, 1.7).unwrap(), s.wavefunction(0, -1.7).unwrap());
     assert!((a - b).norm() < 1e-8 * a.norm(), "{a} vs {b}");
 }
+
+#[test]
+fn multiprecision_solver_agrees_with_nalgebra_on_a_small_truncation() {
+    // At N = 12 the truncated matrix is still mildly conditioned (entries ≲ 1e10), so a
+    // general-purpose f64 symmetric eigensolver (nalgebra's SymmetricEigen) is accurate to
+    // ~1e-6 relative there (ε·‖H‖·N / λ):
+    // the lowest three eigenvalues of the same truncation must agree. Real (P2, mirror frame)
+    // and complex (Q7, no det −1 symmetry) matrices; the complex one through its real symmetric
+    // embedding (nalgebra 0.33's complex `symmetric_eigen` returned a vector with residual
+    // O(1) on this matrix, so it is not used).
+    for id in ["P2", "Q7"] {
+        let l = family(id);
+        let frame = spectrum::frame(&l, 1.0);
+        let n = 12;
+        let m = spectrum::truncated_matrix_f64(&l, &frame, n, 200);
+        // Real symmetric embedding [[Re, −Im], [Im, Re]]: every eigenvalue twice.
+        let big = nalgebra::DMatrix::from_fn(2 * n, 2 * n, |i, j| {
+            let z = m[(i % n, j % n)];
+            match (i < n, j < n) {
+                (true, true) | (false, false) => z.re,
+                (true, false) => -z.im,
+                (false, true) => z.im,
+            }
+        });
+        let mut f64_values: Vec<f64> = big.symmetric_eigen().eigenvalues.iter().copied().collect();
+        f64_values.sort_by(|a, b| a.partial_cmp(b).unwrap());
+        let f64_values: Vec<f64> = f64_values.iter().step_by(2).copied().collect();
+        let ours = spectrum::truncated_eigenvalues(&l, &frame, n, 3, 20).unwrap();
+        for k in 0..3 {
+            approx::assert_relative_eq!(ours[k].to_f64(), f64_values[k], max_relative = 1e-6);
+        }
+        assert_eq!(frame.mirror.is_some(), id == "P2");
+    }
+}
+
+
