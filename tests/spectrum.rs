@@ -139,3 +139,23 @@ fn multiprecision_solver_agrees_with_nalgebra_on_a_small_truncation() {
 }
 
 
+
+#[test]
+fn complex_and_real_matrices_give_the_same_spectrum_for_families_with_equal_periods() {
+    // Observation (measured here, no published source): families whose constant-term
+    // sequences [φⁿ]₀ coincide (Q5 and dP2; Q7 and dP2*, see tests/constant_terms.rs) have the
+    // same ground-state eigenvalue. Q5 and Q7 have no det −1 symmetry, so their truncated
+    // operators are complex Hermitian, while dP2 and dP2* are computed as real symmetric ones:
+    // agreement checks the complex code path against the real one.
+    for (complex_id, real_id) in [("Q5", "dP2"), ("Q7", "dP2*")] {
+        let opts = SpectrumOptions { levels: 0..=1, basis: 150, max_basis: 230, digits: 16, squeeze: 1.0 };
+        let c = spectrum::solve(&family(complex_id), &opts).unwrap();
+        let r = spectrum::solve(&family(real_id), &opts).unwrap();
+        assert!(!c.real_matrix && r.real_matrix);
+        for k in 0..2 {
+            let tol = 10.0 * (c.levels[k].error_estimate + r.levels[k].error_estimate);
+            let d = Float::with_val(200, &c.levels[k].value - &r.levels[k].value).to_f64().abs();
+            assert!(d <= tol.max(1e-12), "{complex_id} vs {real_id} level {k}: {d:e} (tol {tol:e})");
+        }
+    }
+}
