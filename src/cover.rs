@@ -264,27 +264,48 @@ impl<T: CNum> Curve<T> {
         polynomial_roots(&poly)
     }
 
-    /// Punctures as x-values: zeros of A and of C (x ≠ 0).
-    pub fn punctures_x(&self) -> Result<Vec<T>, CoverError> {
-        let mut out = Vec::new();
-        for u in [&self.parts.a, &self.parts.c] {
-            let (poly, _) = LaurentT::from_univariate(u, &self.modulus).polynomial();
-            if poly.len() >= 2 {
-                out.extend(polynomial_roots(&poly)?);
+    /// Punctures: the zeros of A and C. For a tempered strip polynomial the rows m₂ = ±1 are a
+    /// vertex or an edge with binomial coefficients, so A and C are `x^k (1 + x)^ℓ`: every
+    /// puncture is at x = −1, i.e. z ∈ 2πiZ, with multiplicity ℓ. Returns `(ℓ_A, ℓ_C)`.
+    ///
+    /// # Errors
+    /// [`CoverError::Degenerate`] if A or C is not of that form (not tempered).
+    pub fn puncture_orders(&self) -> Result<(usize, usize), CoverError> {
+        let order = |u: &Univariate| -> Result<usize, CoverError> {
+            let low = u.terms.first().map(|t| t.0).unwrap_or(0);
+            let l = u.terms.len() - 1;
+            let binomial_edge = u.terms.iter().enumerate().all(|(j, &(k, c))| {
+                k == low + j as i64 && c == (0..j).fold(1i64, |acc, i| acc * (l - i) as i64 / (i + 1) as i64)
+            });
+            if binomial_edge {
+                Ok(l)
+            } else {
+                Err(CoverError::Degenerate { reason: format!("{} is not x^k (1+x)^l", u.render("x")) })
             }
-        }
-        Ok(out)
+        };
+        Ok((order(&self.parts.a)?, order(&self.parts.c)?))
     }
 
     /// Representatives in z (Im z ∈ (−π, π]) of all singular points: branch points first,
-    /// then punctures, each tagged.
+    /// then the puncture z = 0 if A or C vanishes at x = −1.
+    ///
+    /// # Errors
+    /// See [`Curve::branch_points_x`] and [`Curve::puncture_orders`].
     pub fn singular_points(&self) -> Result<Vec<Singular<T>>, CoverError> {
         let mut out = Vec::new();
+        let two_pi_i = self.modulus.int_like(2) * self.modulus.pi_like() * self.modulus.i_like();
         for x in self.branch_points_x()? {
-            out.push(Singular { z: (-x).ln(), kind: SingularKind::Branch });
+            // Im z ∈ (−π, π]: a positive real x gives Im = ±π by the sign of a rounding error;
+            // take +π so that the choice is deterministic.
+            let mut z = (-x).ln();
+            if z.im_f64() < -std::f64::consts::PI + 1e-9 {
+                z = z + two_pi_i.clone();
+            }
+            out.push(Singular { z, kind: SingularKind::Branch });
         }
-        for x in self.punctures_x()? {
-            out.push(Singular { z: (-x).ln(), kind: SingularKind::Puncture });
+        let (la, lc) = self.puncture_orders()?;
+        if la + lc > 0 {
+            out.push(Singular { z: self.modulus.int_like(0), kind: SingularKind::Puncture });
         }
         Ok(out)
     }

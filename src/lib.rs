@@ -12,6 +12,7 @@
 //!   and the exact constant terms `[φⁿ]₀`.
 //! - [`recurrence`]: the P-recursive recurrence satisfied by `[φⁿ]₀`, guessed and checked exactly.
 //! - [`operator`]: the quantum curve at ħ = 2π in shift form.
+//! - [`periods`]: Ω and R over α and β, τ and the higher normal function ν.
 //! - [`spectrum`]: the independent harmonic-oscillator diagonalization.
 //! - [`cover`]: the double cover over the z-plane, branch points, root continuation.
 //! - [`numeric`]: the small complex-number trait shared by the f64 and MPFR paths.
@@ -25,6 +26,7 @@ pub mod cover;
 pub mod laurent;
 pub mod numeric;
 pub mod operator;
+pub mod periods;
 pub mod polygon;
 pub mod precision;
 pub mod quad;

@@ -1,0 +1,351 @@
+//! Periods Ω and regulator periods R of the curve `φ + a = 0` over the cycles α and β, the
+//! modular ratio τ and the higher normal function ν.
+//!
+//! # Formulas
+//! For a path γ on the cover starting at p₀:
+//! `Ω_γ = ∫_γ dz / D`, `R_γ = ∫_γ z d log(−y) − log(−y(p₀)) ∫_γ dz` (the Beilinson regulator of
+//! {−x, −y} in the coordinate z, x = −e^z; principal logarithm).
+//! - **α** (the torus circle): z from z₀ to z₀ − 2πi on the root of small modulus, z₀ = z_α + iπ.
+//!   z_α = 0 unless A or C vanishes at x = −1 (a puncture at z = 0), then z_α = 1/2; the
+//!   puncture lies in the middle of the path, where z = 0, so the residue z·d log y there is 0
+//!   and the value equals the torus integral. At a = ∞ (|a| > φ(1,1)):
+//!   `Ω_α = −2πi Σ_{n≥0} (−1)ⁿ [φⁿ]₀ a^{−n−1}`, `R_α = −2πi (log a − Σ_{n≥1} (−1)ⁿ [φⁿ]₀ / (n aⁿ))`.
+//! - **β** (rule valid for all 15 families): the circle |x| = e^{z_α} separates the four branch
+//!   points of the x-line into two inside and two outside (0 and ∞ count when they branch);
+//!   α is homologous to a loop around the inside pair, so a loop around one inside and one
+//!   outside branch point meets α once. β is the stadium around the segment from the finite
+//!   inside branch point nearest the circle to the finite outside one nearest it (its 2πi
+//!   translate closest in Im; ties prefer the upper one), on the orientation with Im τ > 0.
+//!   A puncture close to the segment is kept inside the stadium, one farther away outside;
+//!   either choice changes R_β by (2πi)²Z only, i.e. ν by an integer, which the level offset of
+//!   the family absorbs.
+//! - `τ = Ω_β / Ω_α`, `ν(a) = (R_β − τ R_α) / (2πi)²`.
+//!
+//! # Accuracy
+//! Series: rigorous tail bound from `[φⁿ]₀ ≤ φ(1,1)ⁿ`. Paths: see [`crate::cover`]. The
+//! series/path agreement is tested at ≥ 30 digits for every family.
+//!
+//! # Errors
+//! [`PeriodsError`].
+//!
+//! # References
+//! "Modular Mahler measures I" (1999) for R_α as a Mahler measure; the Beilinson regulator and
+//! its periods: "Mahler's measure and the dilogarithm (I)", Canad. J. Math. 54 (2002).
+
+use crate::cover::{self, continue_along, CoverError, Curve, March, PathIntegrals, Point, Singular, SingularKind};
+use crate::laurent::Laurent;
+use crate::numeric::CNum;
+use rug::{Complex, Float, Integer};
+use thiserror::Error;
+
+/// Why a period could not be computed.
+#[derive(Debug, Clone, PartialEq, Error)]
+#[non_exhaustive]
+pub enum PeriodsError {
+    #[error(transparent)]
+    Cover(#[from] CoverError),
+    /// |a| is not above the radius of the series at a = ∞.
+    #[error("the series at a = infinity needs |a| > {radius}, got |a| = {modulus}")]
+    SeriesDiverges { modulus: f64, radius: f64 },
+    /// Not enough constant terms for the requested precision.
+    #[error("the series needs {needed} constant terms, only {available} were given")]
+    TooFewTerms { needed: usize, available: usize },
+    /// The branch points do not split into two inside and two outside the α circle.
+    #[error("no β cycle: the branch points do not straddle the α circle |x| = e^{z_alpha} (found {inside} inside, {outside} outside)")]
+    NoBetaCycle { z_alpha: f64, inside: usize, outside: usize },
+    /// The β loop did not close on the cover.
+    #[error("the β loop did not return to its starting sheet")]
+    BetaNotClosed,
+}
+
+/// Ω and R of one cycle, with the error estimate of the computation.
+#[derive(Debug, Clone)]
+pub struct CyclePeriods<T> {
+    pub omega: T,
+    pub regulator: T,
+    /// Estimated absolute error (the larger of the two).
+    pub error: f64,
+}
+
+/// Ω_α and R_α from the series at a = ∞.
+///
+/// # Errors
+/// [`PeriodsError::SeriesDiverges`] for |a| ≤ φ(1,1); [`PeriodsError::TooFewTerms`].
+pub fn alpha_series(constant_terms: &[Integer], coefficient_sum: i64, a: &Complex) -> Result<CyclePeriods<Complex>, PeriodsError> {
+    let prec = CNum::prec(a);
+    let modulus = a.abs_f64();
+    let radius = coefficient_sum as f64;
+    if modulus <= radius {
+        return Err(PeriodsError::SeriesDiverges { modulus, radius });
+    }
+    // Tail after N terms ≤ (S/|a|)^N / (1 − S/|a|) relative to the leading term.
+    let ratio = radius / modulus;
+    let needed = ((prec as f64 + 8.0) * std::f64::consts::LN_2 / -ratio.ln()).ceil() as usize + 1;
+    if needed > constant_terms.len() {
+        return Err(PeriodsError::TooFewTerms { needed, available: constant_terms.len() });
+    }
+    let inv = Complex::with_val(prec, a.clone().recip());
+    let mut power = inv.clone(); // a^{-n-1}
+    let mut omega_sum = Complex::new(prec);
+    let mut reg_sum = Complex::new(prec);
+    for (n, u) in constant_terms.iter().enumerate().take(needed) {
+        let signed = if n % 2 == 0 { Float::with_val(prec, u) } else { -Float::with_val(prec, u) };
+        omega_sum += Complex::with_val(prec, &power * &signed);
+        if n >= 1 {
+            // (−1)ⁿ uₙ / (n aⁿ) = (−1)ⁿ uₙ a^{−n−1} · a / n
+            let t = Complex::with_val(prec, &power * &signed) * a / n as u32;
+            reg_sum += t;
+        }
+        power *= &inv;
+    }
+    let two_pi_i = a.int_like(2) * a.pi_like() * a.i_like();
+    let omega = -(two_pi_i.clone() * omega_sum);
+    let regulator = -(two_pi_i * (a.clone().ln() - reg_sum));
+    let tail = ratio.powi(needed as i32) / (1.0 - ratio);
+    let error = tail * (omega.abs_f64() + regulator.abs_f64()) + 2f64.powi(-(prec as i32) + 8) * regulator.abs_f64();
+    Ok(CyclePeriods { omega, regulator, error })
+}
+
+/// The real part z_α of the α circle |x| = e^{z_α}.
+pub fn alpha_offset<T: CNum>(curve: &Curve<T>) -> Result<f64, PeriodsError> {
+    let (la, lc) = curve.puncture_orders()?;
+    Ok(if la + lc > 0 { 0.5 } else { 0.0 })
+}
+
+/// Ω_α and R_α by path integration.
+///
+/// # Errors
+/// See [`crate::cover::continue_along`].
+pub fn alpha_path<T: CNum>(curve: &Curve<T>, singular: &[Singular<T>], march: &March) -> Result<CyclePeriods<T>, PeriodsError> {
+    let like = curve.modulus();
+    let prec = like.prec();
+    let z_alpha = alpha_offset(curve)?;
+    let pi_i = like.pi_like() * like.i_like();
+    let z0 = T::from_f64s(z_alpha, 0.0, prec) + pi_i.clone();
+    let z1 = z0.clone() - pi_i.clone() * like.int_like(2);
+    let [big, small] = curve.roots(&z0);
+    let _ = big;
+    let start = Point { z: z0.clone(), y: small };
+    let (_, ints) = continue_along(curve, singular, &start, &[z0, z1], march)?;
+    Ok(regulator_of(ints, &start))
+}
+
+fn regulator_of<T: CNum>(ints: PathIntegrals<T>, start: &Point<T>) -> CyclePeriods<T> {
+    let log_start = (-start.y.clone()).ln();
+    let regulator = ints.eta.clone() - log_start * ints.dz.clone();
+    CyclePeriods { omega: ints.omega, regulator, error: ints.error }
+}
+
+/// The β cycle chosen by the module's rule: its polyline (closed) and the two branch points.
+#[derive(Debug, Clone)]
+pub struct BetaLoop {
+    /// The two branch points the loop surrounds (z, f64).
+    pub branch_points: [[f64; 2]; 2],
+    /// Closed polyline around them.
+    pub polyline: Vec<[f64; 2]>,
+    /// Whether a puncture lies inside the loop.
+    pub encloses_puncture: bool,
+}
+
+/// Distance from p to the segment [a, b].
+fn segment_distance(p: [f64; 2], a: [f64; 2], b: [f64; 2]) -> f64 {
+    let d = [b[0] - a[0], b[1] - a[1]];
+    let len2 = d[0] * d[0] + d[1] * d[1];
+    let t = (((p[0] - a[0]) * d[0] + (p[1] - a[1]) * d[1]) / len2).clamp(0.0, 1.0);
+    let q = [a[0] + t * d[0] - p[0], a[1] + t * d[1] - p[1]];
+    (q[0] * q[0] + q[1] * q[1]).sqrt()
+}
+
+/// The β loop of the module's rule.
+///
+/// # Errors
+/// [`PeriodsError::NoBetaCycle`] when the branch points do not straddle the α circle.
+pub fn beta_loop<T: CNum>(curve: &Curve<T>, singular: &[Singular<T>]) -> Result<BetaLoop, PeriodsError> {
+    let two_pi = 2.0 * std::f64::consts::PI;
+    let z_alpha = alpha_offset(curve)?;
+    let branch: Vec<[f64; 2]> =
+        singular.iter().filter(|s| s.kind == SingularKind::Branch).map(|s| [s.z.re_f64(), s.z.im_f64()]).collect();
+    let inside: Vec<[f64; 2]> = branch.iter().copied().filter(|b| b[0] < z_alpha).collect();
+    let outside: Vec<[f64; 2]> = branch.iter().copied().filter(|b| b[0] > z_alpha).collect();
+    if inside.is_empty() || outside.is_empty() {
+        return Err(PeriodsError::NoBetaCycle { z_alpha, inside: inside.len(), outside: outside.len() });
+    }
+    // Nearest to the circle; ties (conjugate pairs) prefer the upper point.
+    let tie = 1e-9;
+    let b_in = *inside
+        .iter()
+        .max_by(|p, q| {
+            if (p[0] - q[0]).abs() < tie {
+                p[1].total_cmp(&q[1])
+            } else {
+                p[0].total_cmp(&q[0])
+            }
+        })
+        .expect("non-empty");
+    let mut b_out = *outside
+        .iter()
+        .min_by(|p, q| {
+            if (p[0] - q[0]).abs() < tie {
+                q[1].total_cmp(&p[1])
+            } else {
+                p[0].total_cmp(&q[0])
+            }
+        })
+        .expect("non-empty");
+    // The 2πi translate of b_out closest in Im to b_in (ties: the upper one).
+    let k = ((b_in[1] - b_out[1]) / two_pi).round();
+    let mut best = f64::INFINITY;
+    let base = b_out;
+    for dk in [-1.0, 0.0, 1.0] {
+        let cand = [base[0], base[1] + (k + dk) * two_pi];
+        let d = (cand[1] - b_in[1]).abs();
+        if d < best - tie || ((d - best).abs() <= tie && cand[1] > b_out[1]) {
+            best = best.min(d);
+            b_out = cand;
+        }
+    }
+    // Clearance from the other branch points (all translates) and the punctures.
+    let mut clearance_branch = f64::INFINITY;
+    let mut puncture_distance = f64::INFINITY;
+    for s in singular {
+        let p = [s.z.re_f64(), s.z.im_f64()];
+        for j in -3..=3 {
+            let q = [p[0], p[1] + j as f64 * two_pi];
+            let d = segment_distance(q, b_in, b_out);
+            let is_end = |e: [f64; 2]| ((q[0] - e[0]).powi(2) + (q[1] - e[1]).powi(2)).sqrt() < 1e-9;
+            match s.kind {
+                SingularKind::Branch if !is_end(b_in) && !is_end(b_out) => clearance_branch = clearance_branch.min(d),
+                SingularKind::Puncture => puncture_distance = puncture_distance.min(d),
+                _ => {}
+            }
+        }
+    }
+    let length = ((b_out[0] - b_in[0]).powi(2) + (b_out[1] - b_in[1]).powi(2)).sqrt();
+    let mut delta = (0.4 * clearance_branch).min(0.25 * length).min(1.0);
+    let encloses_puncture = puncture_distance < 0.5 * delta;
+    if !encloses_puncture {
+        delta = delta.min(0.5 * puncture_distance);
+    }
+    Ok(BetaLoop { branch_points: [b_in, b_out], polyline: stadium(b_in, b_out, delta), encloses_puncture })
+}
+
+/// A closed polyline at distance δ around the segment [a, b], counter-clockwise, starting and
+/// ending at the middle of the upper side.
+fn stadium(a: [f64; 2], b: [f64; 2], delta: f64) -> Vec<[f64; 2]> {
+    let d = [b[0] - a[0], b[1] - a[1]];
+    let len = (d[0] * d[0] + d[1] * d[1]).sqrt();
+    let u = [d[0] / len, d[1] / len];
+    let n = [-u[1], u[0]];
+    let at = |c: [f64; 2], angle: f64| {
+        let (s, co) = angle.sin_cos();
+        [c[0] + delta * (co * u[0] + s * n[0]), c[1] + delta * (co * u[1] + s * n[1])]
+    };
+    let mid = [0.5 * (a[0] + b[0]) + delta * n[0], 0.5 * (a[1] + b[1]) + delta * n[1]];
+    let arc = 16;
+    // Upper side (+n) from the middle towards a, around a, lower side to b, around b, back.
+    let mut out = vec![mid];
+    for k in 0..=arc {
+        let angle = std::f64::consts::FRAC_PI_2 + std::f64::consts::PI * k as f64 / arc as f64;
+        out.push(at(a, angle));
+    }
+    for k in 0..=arc {
+        let angle = -std::f64::consts::FRAC_PI_2 + std::f64::consts::PI * k as f64 / arc as f64;
+        out.push(at(b, angle));
+    }
+    out.push(mid);
+    out
+}
+
+/// Ω_β and R_β on the loop of [`beta_loop`], oriented so that Im(Ω_β/Ω_α) > 0.
+///
+/// # Errors
+/// [`PeriodsError::BetaNotClosed`], and see [`crate::cover::continue_along`].
+pub fn beta_path<T: CNum>(
+    curve: &Curve<T>,
+    singular: &[Singular<T>],
+    omega_alpha: &T,
+    march: &March,
+) -> Result<(CyclePeriods<T>, BetaLoop), PeriodsError> {
+    let lp = beta_loop(curve, singular)?;
+    let prec = curve.modulus().prec();
+    let path: Vec<T> = lp.polyline.iter().map(|p| T::from_f64s(p[0], p[1], prec)).collect();
+    let [y0, _] = curve.roots(&path[0]);
+    let start = Point { z: path[0].clone(), y: y0 };
+    let (end, ints) = continue_along(curve, singular, &start, &path, march)?;
+    let closure = (end.y.clone() - start.y.clone()).abs_f64() / start.y.abs_f64();
+    if closure > 1e-6 {
+        return Err(PeriodsError::BetaNotClosed);
+    }
+    let mut p = regulator_of(ints, &start);
+    let tau = p.omega.clone() / omega_alpha.clone();
+    if tau.im_f64() < 0.0 {
+        p.omega = -p.omega;
+        p.regulator = -p.regulator;
+    }
+    Ok((p, lp))
+}
+
+/// All periods at one modulus.
+#[derive(Debug, Clone)]
+pub struct Periods<T> {
+    pub alpha: CyclePeriods<T>,
+    pub beta: CyclePeriods<T>,
+    pub tau: T,
+    /// `(R_β − τ R_α)/(2πi)²`.
+    pub nu: T,
+    pub beta_loop: BetaLoop,
+    /// Estimated absolute error of ν.
+    pub nu_error: f64,
+}
+
+/// Ω, R of α and β, τ and ν at modulus a, by path integration (α from `alpha` if given, e.g.
+/// the series).
+///
+/// # Errors
+/// See [`PeriodsError`].
+pub fn periods<T: CNum>(laurent: &Laurent, a: T, digits: f64, alpha: Option<CyclePeriods<T>>) -> Result<Periods<T>, PeriodsError> {
+    let curve = Curve::new(laurent, a)?;
+    let singular = curve.singular_points()?;
+    let march = March::for_digits(digits);
+    let alpha = match alpha {
+        Some(a) => a,
+        None => alpha_path(&curve, &singular, &march)?,
+    };
+    let (beta, beta_loop) = beta_path(&curve, &singular, &alpha.omega, &march)?;
+    let like = curve.modulus();
+    let two_pi_i = like.int_like(2) * like.pi_like() * like.i_like();
+    let tau = beta.omega.clone() / alpha.omega.clone();
+    let nu = (beta.regulator.clone() - tau.clone() * alpha.regulator.clone()) / (two_pi_i.clone() * two_pi_i);
+    let scale = 1.0 / (4.0 * std::f64::consts::PI * std::f64::consts::PI);
+    let nu_error = scale
+        * (beta.error + tau.abs_f64() * alpha.error + alpha.regulator.abs_f64() * (beta.error + tau.abs_f64() * alpha.error) / alpha.omega.abs_f64());
+    Ok(Periods { alpha, beta, tau, nu, beta_loop, nu_error })
+}
+
+/// Re-exported so callers need not import the cover module for settings.
+pub use cover::March as PathSettings;
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use num_complex::Complex64;
+
+    fn lp(terms: Vec<([i64; 2], i64)>) -> Laurent {
+        Laurent::from_terms(terms)
+    }
+
+    #[test]
+    fn nu_is_one_at_the_checked_ground_states() {
+        // MATH.md §4 checked values: a₀ of F0, P2 and the hexagon give ν = 1 (level 0 ↔ ν = n + 1).
+        let cases = [
+            (lp(vec![([1, 0], 1), ([0, 1], 1), ([-1, 0], 1), ([0, -1], 1)]), 17.846643118044799282),
+            (lp(vec![([1, 0], 1), ([0, 1], 1), ([-1, -1], 1)]), 12.970039821793337437),
+            (lp(vec![([1, 0], 1), ([1, 1], 1), ([0, 1], 1), ([-1, 0], 1), ([-1, -1], 1), ([0, -1], 1)]), 36.512388457960298416),
+        ];
+        for (l, a) in cases {
+            let p = periods(&l, Complex64::new(a, 0.0), 15.0, None).unwrap();
+            eprintln!("a {a} nu {} tau {} loop {:?}", p.nu, p.tau, p.beta_loop.branch_points);
+            assert!((p.nu - 1.0).norm() < 1e-9, "ν = {}", p.nu);
+        }
+    }
+}
