@@ -1,6 +1,8 @@
 //! Benchmarks of the performance targets (run with `cargo run --release --example bench`).
 //! Timings are printed, not asserted: they depend on the machine.
 
+use rayon::prelude::*;
+use regwave::attractor;
 use regwave::catalogue;
 use regwave::laurent::Laurent;
 use regwave::spectrum::{self, SpectrumOptions};
@@ -34,6 +36,24 @@ fn main() {
         );
     }
     println!("  worst: {worst_single:.2} s (N = 200) | {worst_pair:.2} s (with the check)");
+
+    println!("target: attractor moduli, levels 0..9 of all 15 families at 30 digits, under 10 s total on 2 cores");
+    let t = Instant::now();
+    let fams: Vec<&catalogue::Family> = catalogue::all().iter().filter(|f| f.applicable).collect();
+    let results: Vec<(String, f64, u32)> = fams
+        .par_iter()
+        .map(|f| {
+            let t = Instant::now();
+            let laurent = Laurent::tempered(&f.polygon());
+            let at = attractor::solve_levels(&laurent, 0..=9, 30).expect("attractors");
+            let min_digits = at.iter().map(|a| a.digits).min().unwrap_or(0);
+            (f.id.to_string(), t.elapsed().as_secs_f64(), min_digits)
+        })
+        .collect();
+    for (id, secs, d) in &results {
+        println!("  {id:<5} {secs:>6.2} s  (all 10 levels confirmed to >= {d} digits)");
+    }
+    println!("  total {:.2} s wall clock", t.elapsed().as_secs_f64());
 
     println!("target: [phi^n]_0 for n <= 2000 under 0.5 s");
     for id in ["F0", "P2", "dP3", "F0*"] {

@@ -75,6 +75,8 @@ pub struct PathIntegrals<T> {
     pub omega: T,
     /// `∫ z d log y`.
     pub eta: T,
+    /// `∫ ∂_a(1/D) dz = ∫ (A y + C/y) / D³ dz`: the derivative of `omega` in the modulus.
+    pub omega_da: T,
     /// `∫ dz` (end minus start).
     pub dz: T,
     /// Estimated absolute error of `omega` and `eta` (the larger).
@@ -85,7 +87,7 @@ pub struct PathIntegrals<T> {
 
 impl<T: CNum> PathIntegrals<T> {
     fn zero(like: &T) -> Self {
-        PathIntegrals { omega: like.int_like(0), eta: like.int_like(0), dz: like.int_like(0), error: 0.0, steps: 0 }
+        PathIntegrals { omega: like.int_like(0), eta: like.int_like(0), omega_da: like.int_like(0), dz: like.int_like(0), error: 0.0, steps: 0 }
     }
 
     /// Sum of two consecutive pieces.
@@ -93,6 +95,7 @@ impl<T: CNum> PathIntegrals<T> {
         PathIntegrals {
             omega: self.omega + next.omega,
             eta: self.eta + next.eta,
+            omega_da: self.omega_da + next.omega_da,
             dz: self.dz + next.dz,
             error: self.error + next.error,
             steps: self.steps + next.steps,
@@ -211,31 +214,78 @@ impl<T: CNum> Curve<T> {
         (self.parts.a.eval(x), self.parts.b.eval(x) + self.modulus.clone(), self.parts.c.eval(x))
     }
 
+    /// Everything the continuation needs at one z, with one exponential and the powers of x by
+    /// multiplication.
+    pub fn fiber(&self, z: &T) -> Fiber<T> {
+        let x = Self::x_of(z);
+        let inv = x.int_like(1) / x.clone();
+        let (lo, hi) = (-4i64, 4i64);
+        let mut powers: Vec<T> = Vec::with_capacity(9);
+        for k in lo..=hi {
+            let v = match k {
+                0 => x.int_like(1),
+                1 => x.clone(),
+                -1 => inv.clone(),
+                k if k > 1 => powers[(k - 1 - lo) as usize].clone() * x.clone(),
+                _ => inv.clone(),
+            };
+            powers.push(v);
+        }
+        for k in (lo..=-2).rev() {
+            let i = (k - lo) as usize;
+            powers[i] = powers[i + 1].clone() * inv.clone();
+        }
+        let eval = |u: &Univariate| -> T {
+            let mut acc = x.int_like(0);
+            for &(k, c) in &u.terms {
+                let p = powers[(k - lo) as usize].clone();
+                acc = acc + if c == 1 { p } else { p * x.int_like(c) };
+            }
+            acc
+        };
+        Fiber {
+            a: eval(&self.parts.a),
+            b: eval(&self.parts.b) + self.modulus.clone(),
+            c: eval(&self.parts.c),
+            da: eval(&self.da),
+            db: eval(&self.db),
+            dc: eval(&self.dc),
+            x,
+        }
+    }
+
     /// The two roots at z, larger modulus first (cancellation-free).
     pub fn roots(&self, z: &T) -> [T; 2] {
-        let x = Self::x_of(z);
-        let (a, b, c) = self.coefficients(&x);
-        let disc = (b.clone() * b.clone() - z.int_like(4) * a.clone() * c.clone()).sqrt();
-        let plus = -b.clone() + disc.clone();
-        let minus = -b - disc;
+        Self::roots_at(&self.fiber(z))
+    }
+
+    /// The two roots over a fiber, larger modulus first.
+    pub fn roots_at(f: &Fiber<T>) -> [T; 2] {
+        let disc = (f.b.clone() * f.b.clone() - f.x.int_like(4) * f.a.clone() * f.c.clone()).sqrt();
+        let plus = -f.b.clone() + disc.clone();
+        let minus = -f.b.clone() - disc;
         let big_num = if plus.abs_f64() >= minus.abs_f64() { plus } else { minus };
-        let y1 = big_num / (z.int_like(2) * a.clone());
-        let y2 = c / (a * y1.clone());
+        let y1 = big_num / (f.x.int_like(2) * f.a.clone());
+        let y2 = f.c.clone() / (f.a.clone() * y1.clone());
         [y1, y2]
     }
 
     /// `D = A y − C/y` at (z, y).
     pub fn d(&self, z: &T, y: &T) -> T {
-        let x = Self::x_of(z);
-        self.parts.a.eval(&x) * y.clone() - self.parts.c.eval(&x) / y.clone()
+        let f = self.fiber(z);
+        f.a.clone() * y.clone() - f.c.clone() / y.clone()
     }
 
     /// `d log y / dz = −x ∂_x φ / D`.
     pub fn dlog_y(&self, z: &T, y: &T) -> T {
-        let x = Self::x_of(z);
-        let xphix = self.da.eval(&x) * y.clone() + self.db.eval(&x) + self.dc.eval(&x) / y.clone();
-        let d = self.parts.a.eval(&x) * y.clone() - self.parts.c.eval(&x) / y.clone();
-        -(xphix / d)
+        let f = self.fiber(z);
+        Self::slope_at(&f, y, &(f.a.clone() * y.clone() - f.c.clone() / y.clone()))
+    }
+
+    /// `−x ∂_x φ / D` over a fiber, given D.
+    pub fn slope_at(f: &Fiber<T>, y: &T, d: &T) -> T {
+        let xphix = f.da.clone() * y.clone() + f.db.clone() + f.dc.clone() / y.clone();
+        -(xphix / d.clone())
     }
 
     /// `x^k Δ(x)` as a polynomial (coefficients low → high) and k.
@@ -311,6 +361,18 @@ impl<T: CNum> Curve<T> {
     }
 }
 
+/// The values at one z that the continuation uses: x, A, B + a, C and their Euler derivatives.
+#[derive(Debug, Clone)]
+pub struct Fiber<T> {
+    pub x: T,
+    pub a: T,
+    pub b: T,
+    pub c: T,
+    pub da: T,
+    pub db: T,
+    pub dc: T,
+}
+
 /// Kind of a singular point of the cover over the z-plane.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
 pub enum SingularKind {
@@ -343,36 +405,45 @@ pub fn periodic_distance(z: [f64; 2], s: [f64; 2]) -> f64 {
 /// All zeros of the polynomial `Σ c_k x^k` (low → high) by the Aberth–Ehrlich iteration,
 /// then Newton-polished, at the precision of the coefficients.
 ///
+/// Initial guesses lie on circles whose radii come from the upper convex hull of
+/// `(k, log|c_k|)` (the Newton polygon), so roots of very different sizes (here x ~ a^{±2})
+/// start near their own scale (common practice for simultaneous iterations). The iteration
+/// stops when every relative correction is below the working precision, or when the
+/// corrections stop shrinking while every residual is at rounding level.
+///
 /// # Errors
-/// [`CoverError::RootsNotConverged`] after 500 iterations.
+/// [`CoverError::RootsNotConverged`] when neither happens within 500 iterations.
 pub fn polynomial_roots<T: CNum>(coeffs: &[T]) -> Result<Vec<T>, CoverError> {
     let n = coeffs.len() - 1;
     let lead = coeffs[n].clone();
     let monic: Vec<T> = coeffs.iter().map(|c| c.clone() / lead.clone()).collect();
     let like = &coeffs[0];
     let prec = like.prec();
-    // Initial guesses on a circle of the Cauchy-bound radius, off the axes.
-    let radius = 1.0 + monic[..n].iter().map(|c| c.abs_f64()).fold(0.0, f64::max);
-    let mut z: Vec<T> = (0..n)
-        .map(|k| {
-            let t = 2.0 * std::f64::consts::PI * (k as f64 + 0.25) / n as f64 + 0.4;
-            T::from_f64s(0.5 * radius * t.cos(), 0.5 * radius * t.sin(), prec)
-        })
-        .collect();
-    let eval = |x: &T| -> (T, T) {
+    let mut z = newton_polygon_guesses(&monic, prec);
+    let eval = |x: &T| -> (T, T, f64) {
         let mut p = monic[n].clone();
         let mut dp = x.int_like(0);
+        let mut size = monic[n].abs_f64();
+        let ax = x.abs_f64();
         for k in (0..n).rev() {
             dp = dp * x.clone() + p.clone();
             p = p * x.clone() + monic[k].clone();
+            size = size * ax + monic[k].abs_f64();
         }
-        (p, dp)
+        (p, dp, size)
     };
-    let tol = 2f64.powi(-(prec as i32) + 12);
-    for iter in 0..500 {
+    let eps = 2f64.powi(-(prec as i32));
+    let tol = eps * 4096.0;
+    let mut best = f64::INFINITY;
+    let mut stalled = 0;
+    for _ in 0..500 {
         let mut max_step: f64 = 0.0;
+        let mut at_rounding = true;
         for i in 0..n {
-            let (p, dp) = eval(&z[i]);
+            let (p, dp, size) = eval(&z[i]);
+            if p.abs_f64() > 64.0 * n as f64 * eps * size {
+                at_rounding = false;
+            }
             if p.abs_f64() == 0.0 {
                 continue;
             }
@@ -384,20 +455,29 @@ pub fn polynomial_roots<T: CNum>(coeffs: &[T]) -> Result<Vec<T>, CoverError> {
                 }
             }
             let step = ratio.clone() / (like.int_like(1) - ratio * sum);
-            max_step = max_step.max(step.abs_f64() / (1.0 + z[i].abs_f64()));
+            max_step = max_step.max(step.abs_f64() / z[i].abs_f64().max(f64::MIN_POSITIVE));
             z[i] = z[i].clone() - step;
         }
         if max_step < tol {
             break;
         }
-        if iter == 499 {
+        if max_step < 0.5 * best {
+            best = max_step;
+            stalled = 0;
+        } else {
+            stalled += 1;
+        }
+        if stalled >= 8 {
+            if at_rounding {
+                break;
+            }
             return Err(CoverError::RootsNotConverged { iterations: 500 });
         }
     }
     // Newton polish.
     for zi in z.iter_mut() {
         for _ in 0..3 {
-            let (p, dp) = eval(zi);
+            let (p, dp, _) = eval(zi);
             if dp.abs_f64() == 0.0 {
                 break;
             }
@@ -405,6 +485,46 @@ pub fn polynomial_roots<T: CNum>(coeffs: &[T]) -> Result<Vec<T>, CoverError> {
         }
     }
     Ok(z)
+}
+
+/// Starting points on circles from the Newton polygon of a monic polynomial.
+fn newton_polygon_guesses<T: CNum>(monic: &[T], prec: u32) -> Vec<T> {
+    let n = monic.len() - 1;
+    let logs: Vec<f64> = monic.iter().map(|c| if c.abs_f64() > 0.0 { c.abs_f64().ln() } else { f64::NEG_INFINITY }).collect();
+    // Upper convex hull of (k, log|c_k|), k = 0..n.
+    let mut hull: Vec<usize> = Vec::new();
+    for k in 0..=n {
+        if logs[k] == f64::NEG_INFINITY {
+            continue;
+        }
+        while hull.len() >= 2 {
+            let (i, j) = (hull[hull.len() - 2], hull[hull.len() - 1]);
+            let cross = (j as f64 - i as f64) * (logs[k] - logs[i]) - (logs[j] - logs[i]) * (k as f64 - i as f64);
+            if cross >= 0.0 {
+                hull.pop();
+            } else {
+                break;
+            }
+        }
+        hull.push(k);
+    }
+    let mut out = Vec::with_capacity(n);
+    let mut count = 0usize;
+    for w in hull.windows(2) {
+        let (i, j) = (w[0], w[1]);
+        let m = j - i;
+        let radius = ((logs[i] - logs[j]) / m as f64).exp();
+        for q in 0..m {
+            let angle = 2.0 * std::f64::consts::PI * q as f64 / m as f64 + 0.4 + 0.7 * count as f64;
+            out.push(T::from_f64s(radius * angle.cos(), radius * angle.sin(), prec));
+        }
+        count += 1;
+    }
+    // A zero constant term (not expected here) leaves roots at 0 unassigned: put them near 0.
+    while out.len() < n {
+        out.push(T::from_f64s(1e-3 * (out.len() as f64 + 1.0), 1e-3, prec));
+    }
+    out
 }
 
 /// Continuation settings.
@@ -463,24 +583,33 @@ pub fn continue_along<T: CNum>(
             let mid = (end.clone() + here.z.clone()) / two.clone();
             let mut y = here.y.clone();
             let mut z_prev = here.z.clone();
-            let mut slope = curve.dlog_y(&z_prev, &y);
+            let start_fiber = curve.fiber(&z_prev);
+            let d0 = start_fiber.a.clone() * y.clone() - start_fiber.c.clone() / y.clone();
+            let mut slope = Curve::slope_at(&start_fiber, &y, &d0);
             let mut sum_omega = start.z.int_like(0);
             let mut sum_eta = start.z.int_like(0);
+            let mut sum_da = start.z.int_like(0);
             let mut size: f64 = 0.0;
             for (t, w) in &rule {
                 let z = mid.clone() + half.clone() * t.clone();
-                y = follow(curve, &z, &z_prev, &y, &slope)?;
-                slope = curve.dlog_y(&z, &y);
-                let inv_d = z.int_like(1) / curve.d(&z, &y);
+                let fib = curve.fiber(&z);
+                y = follow(&fib, &z, &z_prev, &y, &slope)?;
+                let d = fib.a.clone() * y.clone() - fib.c.clone() / y.clone();
+                slope = Curve::slope_at(&fib, &y, &d);
+                let inv_d = z.int_like(1) / d;
                 let eta = z.clone() * slope.clone();
                 size = size.max(inv_d.abs_f64()).max(eta.abs_f64());
+                // ∂_a(1/D) = (A y + C/y)/D³ (from ∂_a y = −y/D).
+                let da = (fib.a.clone() * y.clone() + fib.c.clone() / y.clone()) * inv_d.clone() * inv_d.clone() * inv_d.clone();
+                sum_da = sum_da + w.clone() * da;
                 sum_omega = sum_omega + w.clone() * inv_d;
                 sum_eta = sum_eta + w.clone() * eta;
                 z_prev = z;
             }
-            y = follow(curve, &end, &z_prev, &y, &slope)?;
+            y = follow(&curve.fiber(&end), &end, &z_prev, &y, &slope)?;
             acc.omega = acc.omega + sum_omega * half.clone();
             acc.eta = acc.eta + sum_eta * half.clone();
+            acc.omega_da = acc.omega_da + sum_da * half.clone();
             let hh = 2.0 * half.abs_f64();
             // A-priori Gauss–Legendre bound with ρ ≳ 11 plus rounding (module docs).
             acc.error += hh * size * (11f64.powi(-2 * march.nodes as i32) + eps * march.nodes as f64);
@@ -492,10 +621,12 @@ pub fn continue_along<T: CNum>(
     Ok((here, acc))
 }
 
-/// The root at z continuing y from z_prev: predictor `y·exp(slope·Δz)`, then the nearer root.
-fn follow<T: CNum>(curve: &Curve<T>, z: &T, z_prev: &T, y: &T, slope: &T) -> Result<T, CoverError> {
-    let predicted = y.clone() * (slope.clone() * (z.clone() - z_prev.clone())).exp();
-    let [r1, r2] = curve.roots(z);
+/// The root at z continuing y from z_prev: predictor `y·(1 + w + w²/2)`, `w = slope·Δz`
+/// (second order in the step), then the nearer root.
+fn follow<T: CNum>(fib: &Fiber<T>, z: &T, z_prev: &T, y: &T, slope: &T) -> Result<T, CoverError> {
+    let w = slope.clone() * (z.clone() - z_prev.clone());
+    let predicted = y.clone() * (z.int_like(1) + w.clone() + w.clone() * w / z.int_like(2));
+    let [r1, r2] = Curve::roots_at(fib);
     let e1 = (r1.clone() - predicted.clone()).abs_f64();
     let e2 = (r2.clone() - predicted.clone()).abs_f64();
     let (pick, near, far) = if e1 <= e2 { (r1, e1, e2) } else { (r2, e2, e1) };

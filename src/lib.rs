@@ -6,6 +6,7 @@
 //!
 //! Modules follow the mathematical objects (see `DEVELOPERS.md` for the architecture and
 //! `docs/REFERENCES.md` for the bibliography):
+//! - [`attractor`]: attractor moduli (ν(a) ∈ Z) to any precision, with level labels.
 //! - [`polygon`]: lattice polygons, reflexivity, GL₂(Z) normal form, strip form.
 //! - [`catalogue`]: the 16 reflexive classes, 15 with a canonical strip form.
 //! - [`laurent`]: the tempered Laurent polynomial φ, its strip decomposition `A y + B + C/y`,
@@ -21,6 +22,7 @@
 //! - [`selection`]: command-line selections (family id or vertices, level ranges) resolved.
 //! - [`report`]: JSON documents and human tables (pure formatting, no I/O).
 
+pub mod attractor;
 pub mod catalogue;
 pub mod cover;
 pub mod laurent;

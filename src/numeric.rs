@@ -8,7 +8,6 @@
 
 use num_complex::Complex64;
 use rug::float::Constant;
-use rug::ops::Pow;
 use rug::{Complex, Float};
 use std::fmt::Debug;
 use std::ops::{Add, Div, Mul, Neg, Sub};
@@ -126,8 +125,21 @@ impl CNum for Complex {
         self.clone().sqrt()
     }
     fn powi(&self, n: i64) -> Self {
+        // Binary powering by multiplication (MPC's pow goes through log/exp: slow and less exact).
         let p = CNum::prec(self);
-        Complex::with_val(p, self.pow(n))
+        let mut base = if n < 0 { Complex::with_val(p, self.recip_ref()) } else { self.clone() };
+        let mut e = n.unsigned_abs();
+        let mut acc = Complex::with_val(p, 1);
+        while e > 0 {
+            if e & 1 == 1 {
+                acc *= &base;
+            }
+            e >>= 1;
+            if e > 0 {
+                base = Complex::with_val(p, base.square_ref());
+            }
+        }
+        acc
     }
     fn conj(&self) -> Self {
         self.clone().conj()

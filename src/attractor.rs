@@ -1,0 +1,264 @@
+//! Attractor moduli: the real a in the spectral range where the higher normal function ν(a)
+//! takes an integer value, labelled by level.
+//!
+//! # Method
+//! `f(t) = Re ν(e^t) − k` is solved in t = log a: first in double precision (bracketing from
+//! the leading asymptotics `ν ≈ (12 − b)(log a)² / (8π²)`, b the number of boundary points, or
+//! from the previous levels, then Newton safeguarded by bisection), then refined by Newton's
+//! method at the working precision, and finally re-solved at a higher precision. The derivative
+//! is exact: `dν/da = −τ' R_α/(2πi)²` (the regulator periods satisfy `dR/da = Ω`). The digits reported are those on
+//! which the two solves agree (capped at the digits requested).
+//!
+//! # Level labels
+//! With the β rule of [`crate::periods`], **ν(a_n) = n + 1 for all 15 strip families**
+//! ([`LEVEL_OFFSET`]): established against the independent harmonic-oscillator spectrum for
+//! levels 0..5 of every family (`tests/attractor.rs`); MATH.md states it for F0, P2, dP3.
+//!
+//! # Accuracy
+//! Limited by the working precision only (periods to working precision, series α with a
+//! rigorous tail bound). Measured: see `tests/attractor.rs`.
+//!
+//! # Errors
+//! [`AttractorError`].
+//!
+//! # References
+//! Attractor points and the eigenvalues at ħ = 2π: MATH.md §4; the asymptotics from the
+//! perturbative quantization volumes, "Topological strings from quantum mechanics",
+//! arXiv:1410.3382 (2014).
+
+use crate::laurent::Laurent;
+use crate::periods::{self, CyclePeriods, PeriodsError};
+use crate::numeric::CNum;
+use crate::precision::{bits_for_digits, digits_for_bits, with_guard};
+use crate::recurrence::RecurrenceError;
+use num_complex::Complex64;
+use rug::{Complex, Float, Integer};
+use thiserror::Error;
+
+/// ν(a_n) = n + LEVEL_OFFSET for every strip family with the β rule of [`crate::periods`].
+pub const LEVEL_OFFSET: i64 = 1;
+
+/// Why an attractor modulus could not be found.
+#[derive(Debug, Clone, PartialEq, Error)]
+#[non_exhaustive]
+pub enum AttractorError {
+    #[error(transparent)]
+    Periods(#[from] PeriodsError),
+    #[error(transparent)]
+    ConstantTerms(#[from] RecurrenceError),
+    /// ν was not real on the real axis (the β cycle is not real there).
+    #[error("ν({a}) has imaginary part {im:e}: not real on the spectral range")]
+    NotReal { a: f64, im: f64 },
+    /// No sign change of ν − k found.
+    #[error("could not bracket ν = {target} (last ν = {last} at log a = {log_a})")]
+    NoBracket { target: i64, last: f64, log_a: f64 },
+    /// The iteration did not converge.
+    #[error("the root of ν = {target} did not converge (last step {step:e})")]
+    NoConvergence { target: i64, step: f64 },
+}
+
+/// One attractor modulus.
+#[derive(Debug, Clone)]
+pub struct Attractor {
+    pub level: usize,
+    /// The integer value of ν.
+    pub nu: i64,
+    pub modulus: Float,
+    pub log_modulus: Float,
+    /// Decimal digits that survived the confirming solve at higher precision.
+    pub digits: u32,
+    /// |Re ν(a) − k| at the final modulus (working precision).
+    pub residual: f64,
+    /// |Im ν(a)| at the final modulus.
+    pub imaginary_part: f64,
+    /// Working precision of the reported value.
+    pub precision_bits: u32,
+}
+
+/// The family data a solve needs: φ and its constant terms (for the α series).
+#[derive(Debug, Clone)]
+pub struct Family {
+    pub laurent: Laurent,
+    pub boundary_points: usize,
+    constant_terms: Vec<Integer>,
+}
+
+impl Family {
+    /// # Errors
+    /// [`AttractorError::ConstantTerms`].
+    pub fn new(laurent: &Laurent) -> Result<Self, AttractorError> {
+        let boundary_points = laurent.terms().len();
+        Ok(Family { laurent: laurent.clone(), boundary_points, constant_terms: laurent.constant_terms(200)? })
+    }
+
+    fn ensure_terms(&mut self, n: usize) -> Result<(), AttractorError> {
+        if self.constant_terms.len() <= n {
+            self.constant_terms = self.laurent.constant_terms(n.max(2 * self.constant_terms.len()))?;
+        }
+        Ok(())
+    }
+
+    /// α by the series when it converges fast (a > 2 φ(1,1)), at the precision of `a`.
+    fn alpha_series(&mut self, a: &Complex) -> Result<Option<CyclePeriods<Complex>>, AttractorError> {
+        let s = self.laurent.coefficient_sum() as f64;
+        let re = a.real().to_f64();
+        if re <= 2.0 * s {
+            return Ok(None);
+        }
+        let bits = a.prec().0;
+        let need = (bits as f64 * std::f64::consts::LN_2 / (re / s).ln()).ceil() as usize + 16;
+        self.ensure_terms(need)?;
+        Ok(Some(periods::alpha_series(&self.constant_terms, self.laurent.coefficient_sum(), a)?))
+    }
+
+    /// `(Re ν(a), a·Re dν/da, |Im ν|)` at `bits` bits.
+    ///
+    /// # Errors
+    /// See [`AttractorError`].
+    pub fn nu(&mut self, a: &Float, bits: u32) -> Result<(Float, Float, f64), AttractorError> {
+        let ac = Complex::with_val(bits, (a, 0));
+        let alpha = self.alpha_series(&ac)?;
+        let p = periods::periods(&self.laurent, ac, digits_for_bits(bits) as f64, alpha)?;
+        let slope = Float::with_val(bits, p.nu_da.real() * a);
+        Ok((p.nu.real().clone(), slope, p.nu.imag().to_f64().abs()))
+    }
+
+    /// `(Re ν(e^t), d Re ν/dt)` in double precision (the search phase).
+    fn nu_f64(&mut self, t: f64) -> Result<(f64, f64), AttractorError> {
+        let a = t.exp();
+        let alpha = self.alpha_series(&Complex::with_val(64, a))?.map(|c| CyclePeriods {
+            omega: c.omega.to_c64(),
+            regulator: c.regulator.to_c64(),
+            omega_da: c.omega_da.to_c64(),
+            error: c.error,
+        });
+        let p = periods::periods(&self.laurent, Complex64::new(a, 0.0), 15.0, alpha)?;
+        Ok((p.nu.re, p.nu_da.re * a))
+    }
+
+    /// Leading-order guess of log a where ν = k: `(12 − b)(log a)²/(8π²) ≈ k − 1/5`.
+    fn guess_log(&self, k: i64) -> f64 {
+        let c = (12.0 - self.boundary_points as f64) / (8.0 * std::f64::consts::PI.powi(2));
+        ((k as f64 - 0.2).max(0.3) / c).sqrt()
+    }
+
+    /// Double-precision root of Re ν(e^t) = k near `t0`: bracket, then Newton safeguarded by
+    /// bisection.
+    fn root_f64(&mut self, k: i64, t0: f64) -> Result<f64, AttractorError> {
+        let target = k as f64;
+        let (mut lo, mut hi) = (t0, t0);
+        let (f0, _) = self.nu_f64(t0)?;
+        let (mut flo, mut fhi) = (f0 - target, f0 - target);
+        let mut step = 0.25;
+        let mut tries = 0;
+        while flo.signum() == fhi.signum() {
+            tries += 1;
+            if tries > 60 {
+                return Err(AttractorError::NoBracket { target: k, last: flo + target, log_a: lo });
+            }
+            if flo > 0.0 {
+                hi = lo;
+                fhi = flo;
+                lo = (lo - step).max(0.05);
+                flo = self.nu_f64(lo)?.0 - target;
+            } else {
+                lo = hi;
+                flo = fhi;
+                hi += step;
+                fhi = self.nu_f64(hi)?.0 - target;
+            }
+            step *= 1.5;
+        }
+        let mut t = 0.5 * (lo + hi);
+        for _ in 0..100 {
+            let (v, dv) = self.nu_f64(t)?;
+            let f = v - target;
+            if f.abs() < 1e-14 * target.abs().max(1.0) {
+                return Ok(t);
+            }
+            if f.signum() == flo.signum() {
+                lo = t;
+                flo = f;
+            } else {
+                hi = t;
+            }
+            let newton = t - f / dv;
+            let next = if dv > 0.0 && newton > lo.min(hi) && newton < lo.max(hi) { newton } else { 0.5 * (lo + hi) };
+            if (next - t).abs() < 1e-15 * t.abs() {
+                return Ok(next);
+            }
+            t = next;
+        }
+        let _ = fhi;
+        Err(AttractorError::NoConvergence { target: k, step: hi - lo })
+    }
+
+    /// Newton refinement of Re ν(e^t) = k at `bits` from the approximation t0; returns
+    /// (t, |residual|, |Im ν|).
+    fn root_mp(&mut self, k: i64, t0: &Float, bits: u32) -> Result<(Float, f64, f64), AttractorError> {
+        let mut t = Float::with_val(bits, t0);
+        let tol = 2f64.powi(-(bits as i32) + 8);
+        let mut last = f64::INFINITY;
+        for _ in 0..30 {
+            let a = Float::with_val(bits, t.exp_ref());
+            let (nu, slope, im) = self.nu(&a, bits)?;
+            let f = nu - k;
+            let step = Float::with_val(bits, &f / &slope);
+            t -= &step;
+            let s = step.to_f64().abs();
+            // Quadratic convergence: once the step is below √tol the next one is below tol.
+            if s <= tol * t.to_f64().abs() || (s * s <= tol * t.to_f64().abs() && last < 1e-3) {
+                return Ok((t, f.to_f64().abs(), im));
+            }
+            last = s;
+        }
+        Err(AttractorError::NoConvergence { target: k, step: last })
+    }
+}
+
+/// Attractor moduli for the levels `levels` at `digits` decimal digits.
+///
+/// # Errors
+/// See [`AttractorError`].
+pub fn solve_levels(laurent: &Laurent, levels: std::ops::RangeInclusive<usize>, digits: u32) -> Result<Vec<Attractor>, AttractorError> {
+    let mut fam = Family::new(laurent)?;
+    let bits = with_guard(bits_for_digits(digits as f64));
+    let check_bits = bits + bits / 4 + 32;
+    let mut out = Vec::new();
+    let mut previous: Vec<(f64, f64)> = Vec::new(); // (k, t)
+    for level in levels {
+        let k = level as i64 + LEVEL_OFFSET;
+        // Guess: from ν ≈ c t² + d through the last two roots, else the leading asymptotics.
+        let t0 = match previous.as_slice() {
+            [.., (k1, t1), (k2, t2)] => {
+                let c = (k2 - k1) / (t2 * t2 - t1 * t1);
+                let d = k2 - c * t2 * t2;
+                ((k as f64 - d) / c).max(0.1).sqrt()
+            }
+            [(k1, t1)] => t1 * (k as f64 / k1).sqrt(),
+            [] => fam.guess_log(k),
+        };
+        let t = fam.root_f64(k, t0)?;
+        previous.push((k as f64, t));
+        let (t_work, residual, imaginary_part) = fam.root_mp(k, &Float::with_val(bits, t), bits)?;
+        if imaginary_part > 1e-6 {
+            return Err(AttractorError::NotReal { a: t.exp(), im: imaginary_part });
+        }
+        let (t_check, _, _) = fam.root_mp(k, &t_work, check_bits)?;
+        let a = Float::with_val(bits, t_work.exp_ref());
+        let a_check = Float::with_val(check_bits, t_check.exp_ref());
+        let rel = (Float::with_val(check_bits, &a_check - &a) / &a_check).to_f64().abs();
+        let agreed = if rel == 0.0 { digits as f64 } else { -rel.log10() };
+        out.push(Attractor {
+            level,
+            nu: k,
+            log_modulus: t_work,
+            modulus: a,
+            digits: (agreed.floor().max(0.0) as u32).min(digits),
+            residual,
+            imaginary_part,
+            precision_bits: bits,
+        });
+    }
+    Ok(out)
+}
