@@ -14,15 +14,15 @@
 //!
 //! # Continuation
 //! Along each segment of a polyline the step is `h = min(h_max, κ · dist(z, singular set))`
-//! (κ = 0.3, h_max = 0.5); on each step an n-point Gauss–Legendre rule integrates ω and η, the
+//! (κ = 0.5, h_max = 0.5); on each step an n-point Gauss–Legendre rule integrates ω and η, the
 //! root being followed node by node: predictor `y · exp(dlog y · Δz)`, then the nearer root.
 //! If the two roots are not clearly separated relative to the prediction error the continuation
 //! stops with [`CoverError::SheetAmbiguous`] rather than guess.
 //!
 //! # Accuracy
-//! With the step rule the integrand is analytic in a Bernstein ellipse of parameter ρ ≳ 11
-//! around every step, so an n-point rule errs by ≲ ρ^{−2n}; n = 0.55·digits + 6 gives the
-//! digits with margin. The returned error estimate is this a-priori bound times the integrand
+//! With the step rule the integrand is analytic in a Bernstein ellipse of parameter ρ ≥ 3 + √8
+//! ≈ 5.8 around every step (worst case: the singularity straight ahead), so an n-point rule
+//! errs by ≲ ρ^{−2n}; n = 0.66·digits + 6 gives the digits with margin. The returned error estimate is this a-priori bound times the integrand
 //! size, plus rounding. Measured agreement with series and with the AGM: see `tests/periods.rs`.
 //!
 //! # Errors
@@ -38,8 +38,8 @@ use crate::numeric::CNum;
 use crate::quad;
 use thiserror::Error;
 
-/// Step factor κ: step ≤ κ · distance to the nearest singular point.
-pub const STEP_FACTOR: f64 = 0.3;
+/// Step factor κ: step ≤ κ · distance to the nearest singular point (ρ ≥ 5.8, see above).
+pub const STEP_FACTOR: f64 = 0.5;
 /// Largest step.
 pub const MAX_STEP: f64 = 0.5;
 
@@ -77,6 +77,8 @@ pub struct PathIntegrals<T> {
     pub eta: T,
     /// `∫ ∂_a(1/D) dz = ∫ (A y + C/y) / D³ dz`: the derivative of `omega` in the modulus.
     pub omega_da: T,
+    /// `∫ ∂²_a(1/D) dz`: the second derivative of `omega` in the modulus.
+    pub omega_daa: T,
     /// `∫ dz` (end minus start).
     pub dz: T,
     /// Estimated absolute error of `omega` and `eta` (the larger).
@@ -87,7 +89,7 @@ pub struct PathIntegrals<T> {
 
 impl<T: CNum> PathIntegrals<T> {
     fn zero(like: &T) -> Self {
-        PathIntegrals { omega: like.int_like(0), eta: like.int_like(0), omega_da: like.int_like(0), dz: like.int_like(0), error: 0.0, steps: 0 }
+        PathIntegrals { omega: like.int_like(0), eta: like.int_like(0), omega_da: like.int_like(0), omega_daa: like.int_like(0), dz: like.int_like(0), error: 0.0, steps: 0 }
     }
 
     /// Sum of two consecutive pieces.
@@ -96,6 +98,7 @@ impl<T: CNum> PathIntegrals<T> {
             omega: self.omega + next.omega,
             eta: self.eta + next.eta,
             omega_da: self.omega_da + next.omega_da,
+            omega_daa: self.omega_daa + next.omega_daa,
             dz: self.dz + next.dz,
             error: self.error + next.error,
             steps: self.steps + next.steps,
@@ -173,6 +176,9 @@ pub struct Curve<T> {
     db: Univariate,
     dc: Univariate,
     modulus: T,
+    /// Range of x-exponents in A, B, C.
+    lowest: i64,
+    highest: i64,
 }
 
 impl<T: CNum> Curve<T> {
@@ -185,7 +191,12 @@ impl<T: CNum> Curve<T> {
         if parts.a.terms.is_empty() || parts.c.terms.is_empty() {
             return Err(CoverError::Degenerate { reason: "A or C vanishes identically".into() });
         }
+        let exps = || parts.a.terms.iter().chain(&parts.b.terms).chain(&parts.c.terms).map(|t| t.0);
+        let lowest = exps().min().unwrap_or(0).min(-1);
+        let highest = exps().max().unwrap_or(0).max(1);
         Ok(Curve {
+            lowest,
+            highest,
             da: parts.a.euler_derivative(),
             db: parts.b.euler_derivative(),
             dc: parts.c.euler_derivative(),
@@ -219,8 +230,8 @@ impl<T: CNum> Curve<T> {
     pub fn fiber(&self, z: &T) -> Fiber<T> {
         let x = Self::x_of(z);
         let inv = x.int_like(1) / x.clone();
-        let (lo, hi) = (-4i64, 4i64);
-        let mut powers: Vec<T> = Vec::with_capacity(9);
+        let (lo, hi) = (self.lowest, self.highest);
+        let mut powers: Vec<T> = Vec::with_capacity((hi - lo + 1) as usize);
         for k in lo..=hi {
             let v = match k {
                 0 => x.int_like(1),
@@ -543,7 +554,7 @@ pub struct March {
 impl March {
     /// Settings for `digits` decimal digits.
     pub fn for_digits(digits: f64) -> Self {
-        March { nodes: quad::nodes_for_digits(digits), step_factor: STEP_FACTOR, max_step: MAX_STEP, min_distance: 1e-30 }
+        March { nodes: (0.66 * digits + 6.0).ceil() as usize, step_factor: STEP_FACTOR, max_step: MAX_STEP, min_distance: 1e-30 }
     }
 }
 
@@ -584,24 +595,36 @@ pub fn continue_along<T: CNum>(
             let mut y = here.y.clone();
             let mut z_prev = here.z.clone();
             let start_fiber = curve.fiber(&z_prev);
-            let d0 = start_fiber.a.clone() * y.clone() - start_fiber.c.clone() / y.clone();
-            let mut slope = Curve::slope_at(&start_fiber, &y, &d0);
+            let inv_y0 = y.int_like(1) / y.clone();
+            let d0 = start_fiber.a.clone() * y.clone() - start_fiber.c.clone() * inv_y0.clone();
+            let mut slope = -((start_fiber.da.clone() * y.clone() + start_fiber.db.clone() + start_fiber.dc.clone() * inv_y0)
+                / d0);
             let mut sum_omega = start.z.int_like(0);
             let mut sum_eta = start.z.int_like(0);
             let mut sum_da = start.z.int_like(0);
+            let mut sum_daa = start.z.int_like(0);
             let mut size: f64 = 0.0;
             for (t, w) in &rule {
                 let z = mid.clone() + half.clone() * t.clone();
                 let fib = curve.fiber(&z);
                 y = follow(&fib, &z, &z_prev, &y, &slope)?;
-                let d = fib.a.clone() * y.clone() - fib.c.clone() / y.clone();
-                slope = Curve::slope_at(&fib, &y, &d);
-                let inv_d = z.int_like(1) / d;
+                // Two divisions per node: 1/y and 1/D.
+                let inv_y = y.int_like(1) / y.clone();
+                let ay = fib.a.clone() * y.clone();
+                let c_y = fib.c.clone() * inv_y.clone();
+                let inv_d = y.int_like(1) / (ay.clone() - c_y.clone());
+                slope = -((fib.da.clone() * y.clone() + fib.db.clone() + fib.dc.clone() * inv_y) * inv_d.clone());
                 let eta = z.clone() * slope.clone();
                 size = size.max(inv_d.abs_f64()).max(eta.abs_f64());
-                // ∂_a(1/D) = (A y + C/y)/D³ (from ∂_a y = −y/D).
-                let da = (fib.a.clone() * y.clone() + fib.c.clone() / y.clone()) * inv_d.clone() * inv_d.clone() * inv_d.clone();
-                sum_da = sum_da + w.clone() * da;
+                // ∂_a(1/D) = (A y + C/y)/D³ and ∂²_a(1/D) = 3(A y + C/y)²/D⁵ − 1/D³
+                // (from ∂_a y = −y/D, ∂_a(A y + C/y) = −1, ∂_a D = −(A y + C/y)/D).
+                let s_ac = ay + c_y;
+                let inv_d2 = inv_d.clone() * inv_d.clone();
+                let inv_d3 = inv_d2.clone() * inv_d.clone();
+                let g = s_ac.clone() * inv_d3.clone();
+                let g2 = g.clone() * s_ac * inv_d2 * y.int_like(3) - inv_d3;
+                sum_da = sum_da + w.clone() * g;
+                sum_daa = sum_daa + w.clone() * g2;
                 sum_omega = sum_omega + w.clone() * inv_d;
                 sum_eta = sum_eta + w.clone() * eta;
                 z_prev = z;
@@ -610,9 +633,10 @@ pub fn continue_along<T: CNum>(
             acc.omega = acc.omega + sum_omega * half.clone();
             acc.eta = acc.eta + sum_eta * half.clone();
             acc.omega_da = acc.omega_da + sum_da * half.clone();
+            acc.omega_daa = acc.omega_daa + sum_daa * half.clone();
             let hh = 2.0 * half.abs_f64();
-            // A-priori Gauss–Legendre bound with ρ ≳ 11 plus rounding (module docs).
-            acc.error += hh * size * (11f64.powi(-2 * march.nodes as i32) + eps * march.nodes as f64);
+            // A-priori Gauss–Legendre bound with ρ ≳ 5.8 plus rounding (module docs).
+            acc.error += hh * size * (5.8f64.powi(-2 * march.nodes as i32) + eps * march.nodes as f64);
             acc.steps += 1;
             here = Point { z: end, y };
         }

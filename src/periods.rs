@@ -65,6 +65,8 @@ pub struct CyclePeriods<T> {
     pub regulator: T,
     /// dΩ/da (then dR/da = Ω: Beilinson's correction term cancels the boundary terms).
     pub omega_da: T,
+    /// d²Ω/da².
+    pub omega_daa: T,
     /// Estimated absolute error (the larger of the two).
     pub error: f64,
 }
@@ -90,12 +92,14 @@ pub fn alpha_series(constant_terms: &[Integer], coefficient_sum: i64, a: &Comple
     let mut power = inv.clone(); // a^{-n-1}
     let mut omega_sum = Complex::new(prec);
     let mut da_sum = Complex::new(prec);
+    let mut daa_sum = Complex::new(prec);
     let mut reg_sum = Complex::new(prec);
     for (n, u) in constant_terms.iter().enumerate().take(needed) {
         let signed = if n % 2 == 0 { Float::with_val(prec, u) } else { -Float::with_val(prec, u) };
         omega_sum += Complex::with_val(prec, &power * &signed);
         // d/da a^{−n−1} = −(n+1) a^{−n−2}
         da_sum -= Complex::with_val(prec, &power * &signed) * &inv * (n + 1) as u32;
+        daa_sum += Complex::with_val(prec, &power * &signed) * &inv * &inv * ((n + 1) * (n + 2)) as u32;
         if n >= 1 {
             // (−1)ⁿ uₙ / (n aⁿ) = (−1)ⁿ uₙ a^{−n−1} · a / n
             let t = Complex::with_val(prec, &power * &signed) * a / n as u32;
@@ -106,10 +110,11 @@ pub fn alpha_series(constant_terms: &[Integer], coefficient_sum: i64, a: &Comple
     let two_pi_i = a.int_like(2) * a.pi_like() * a.i_like();
     let omega = -(two_pi_i.clone() * omega_sum);
     let omega_da = -(two_pi_i.clone() * da_sum);
+    let omega_daa = -(two_pi_i.clone() * daa_sum);
     let regulator = -(two_pi_i * (a.clone().ln() - reg_sum));
     let tail = ratio.powi(needed as i32) / (1.0 - ratio);
     let error = tail * (omega.abs_f64() + regulator.abs_f64()) + 2f64.powi(-(prec as i32) + 8) * regulator.abs_f64();
-    Ok(CyclePeriods { omega, regulator, omega_da, error })
+    Ok(CyclePeriods { omega, regulator, omega_da, omega_daa, error })
 }
 
 /// The real part z_α of the α circle |x| = e^{z_α}.
@@ -139,7 +144,7 @@ pub fn alpha_path<T: CNum>(curve: &Curve<T>, singular: &[Singular<T>], march: &M
 fn regulator_of<T: CNum>(ints: PathIntegrals<T>, start: &Point<T>) -> CyclePeriods<T> {
     let log_start = (-start.y.clone()).ln();
     let regulator = ints.eta.clone() - log_start * ints.dz.clone();
-    CyclePeriods { omega: ints.omega, regulator, omega_da: ints.omega_da, error: ints.error }
+    CyclePeriods { omega: ints.omega, regulator, omega_da: ints.omega_da, omega_daa: ints.omega_daa, error: ints.error }
 }
 
 /// The β cycle chosen by the module's rule: its polyline (closed) and the two branch points.
@@ -288,6 +293,7 @@ pub fn beta_path<T: CNum>(
         p.omega = -p.omega;
         p.regulator = -p.regulator;
         p.omega_da = -p.omega_da;
+        p.omega_daa = -p.omega_daa;
     }
     Ok((p, lp))
 }
@@ -302,6 +308,8 @@ pub struct Periods<T> {
     pub nu: T,
     /// dν/da = −τ' R_α/(2πi)², τ' = (Ω_β' Ω_α − Ω_β Ω_α')/Ω_α² (using R_γ' = Ω_γ).
     pub nu_da: T,
+    /// d²ν/da² = −(τ'' R_α + τ' Ω_α)/(2πi)², τ'' = (Ω_β''Ω_α − Ω_βΩ_α'')/Ω_α² − 2τ'Ω_α'/Ω_α.
+    pub nu_daa: T,
     pub beta_loop: BetaLoop,
     /// Estimated absolute error of ν.
     pub nu_error: f64,
@@ -328,11 +336,15 @@ pub fn periods<T: CNum>(laurent: &Laurent, a: T, digits: f64, alpha: Option<Cycl
     let nu = (beta.regulator.clone() - tau.clone() * alpha.regulator.clone()) / four_pi2.clone();
     let tau_da = (beta.omega_da.clone() * alpha.omega.clone() - beta.omega.clone() * alpha.omega_da.clone())
         / (alpha.omega.clone() * alpha.omega.clone());
-    let nu_da = -(tau_da * alpha.regulator.clone()) / four_pi2;
+    let tau_daa = (beta.omega_daa.clone() * alpha.omega.clone() - beta.omega.clone() * alpha.omega_daa.clone())
+        / (alpha.omega.clone() * alpha.omega.clone())
+        - like.int_like(2) * tau_da.clone() * alpha.omega_da.clone() / alpha.omega.clone();
+    let nu_da = -(tau_da.clone() * alpha.regulator.clone()) / four_pi2.clone();
+    let nu_daa = -(tau_daa * alpha.regulator.clone() + tau_da * alpha.omega.clone()) / four_pi2;
     let scale = 1.0 / (4.0 * std::f64::consts::PI * std::f64::consts::PI);
     let nu_error = scale
         * (beta.error + tau.abs_f64() * alpha.error + alpha.regulator.abs_f64() * (beta.error + tau.abs_f64() * alpha.error) / alpha.omega.abs_f64());
-    Ok(Periods { alpha, beta, tau, nu, nu_da, beta_loop, nu_error })
+    Ok(Periods { alpha, beta, tau, nu, nu_da, nu_daa, beta_loop, nu_error })
 }
 
 /// Re-exported so callers need not import the cover module for settings.
@@ -365,6 +377,10 @@ mod tests {
             let down = periods(&l, Complex64::new(a - h, 0.0), 15.0, None).unwrap().nu;
             let fd = (up - down) / (2.0 * h);
             assert!((fd - p.nu_da).norm() < 1e-7 * p.nu_da.norm(), "dν/da {} vs {}", p.nu_da, fd);
+            let up_d = periods(&l, Complex64::new(a + h, 0.0), 15.0, None).unwrap().nu_da;
+            let down_d = periods(&l, Complex64::new(a - h, 0.0), 15.0, None).unwrap().nu_da;
+            let fd2 = (up_d - down_d) / (2.0 * h);
+            assert!((fd2 - p.nu_daa).norm() < 1e-6 * p.nu_daa.norm(), "d²ν/da² {} vs {}", p.nu_daa, fd2);
             // The series α agrees with the path α.
             let terms = l.constant_terms(400).unwrap();
             let s = alpha_series(&terms, l.coefficient_sum(), &rug::Complex::with_val(64, a)).unwrap();
@@ -374,27 +390,3 @@ mod tests {
     }
 }
 
-#[cfg(test)]
-mod probe {
-    use super::*;
-    use rug::Complex;
-
-    #[test]
-    fn probe_steps() {
-        let l = Laurent::from_terms(vec![([1, 0], 1), ([0, 1], 1), ([-1, 0], 1), ([0, -1], 1)]);
-        for bits in [53u32, 132] {
-            let t = std::time::Instant::now();
-            let a = Complex::with_val(bits, 17.846643118044799282);
-            let curve = Curve::new(&l, a).unwrap();
-            let sing = curve.singular_points().unwrap();
-            let march = March::for_digits(bits as f64 / 3.32);
-            let al = alpha_path(&curve, &sing, &march).unwrap();
-            let t1 = t.elapsed();
-            let lp = beta_loop(&curve, &sing).unwrap();
-            let path: Vec<Complex> = lp.polyline.iter().map(|p| Complex::with_val(bits, (p[0], p[1]))).collect();
-            let [y0, _] = curve.roots(&path[0]);
-            let (_, ints) = continue_along(&curve, &sing, &Point { z: path[0].clone(), y: y0 }, &path, &march).unwrap();
-            eprintln!("bits {bits} nodes {} alpha {t1:?} beta steps {} total {:?} err {:e} {:?}", march.nodes, ints.steps, t.elapsed(), al.error, lp.branch_points);
-        }
-    }
-}

@@ -34,3 +34,4 @@ fn checked_values_at_thirty_digits() {
     }
     eprintln!("{:?}", t.elapsed());
 }
+
