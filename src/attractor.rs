@@ -232,8 +232,20 @@ impl Family {
 /// # Errors
 /// See [`AttractorError`].
 pub fn solve_levels(laurent: &Laurent, levels: std::ops::RangeInclusive<usize>, digits: u32) -> Result<Vec<Attractor>, AttractorError> {
+    solve_levels_at(laurent, levels, digits, with_guard(bits_for_digits(digits as f64)))
+}
+
+/// As [`solve_levels`] at an explicit working precision `bits` (the confirming solve uses more).
+///
+/// # Errors
+/// See [`AttractorError`].
+pub fn solve_levels_at(
+    laurent: &Laurent,
+    levels: std::ops::RangeInclusive<usize>,
+    digits: u32,
+    bits: u32,
+) -> Result<Vec<Attractor>, AttractorError> {
     let mut fam = Family::new(laurent)?;
-    let bits = with_guard(bits_for_digits(digits as f64));
     let check_bits = bits + (bits / 8).max(32);
     // Phase 1 (sequential, double precision): each level's root seeds the next guess.
     let mut roots: Vec<(usize, i64, f64)> = Vec::new();

@@ -1,10 +1,10 @@
 //! The `regwave` command line: argument parsing, calls into the library, file writing.
 
 use clap::{Args, Parser, Subcommand};
-use regwave::precision::{check_digits, PrecisionError};
+use regwave::precision::{bits_for_digits, check_digits, with_guard, PrecisionError};
 use regwave::selection::{self, Selection, SelectionError};
 use regwave::spectrum::{self, SpectrumError, SpectrumOptions};
-use regwave::{catalogue, report, TOOL_VERSION};
+use regwave::{attractor, catalogue, periods, report, TOOL_VERSION};
 use serde_json::{json, Value};
 use std::path::{Path, PathBuf};
 use std::process::ExitCode;
@@ -27,6 +27,10 @@ enum Command {
     },
     /// Independent eigenvalues from a harmonic-oscillator basis, with convergence estimates.
     Spectrum(SpectrumArgs),
+    /// Periods Omega, regulator periods R over the cycles alpha and beta, tau and nu at one modulus.
+    Periods(PeriodsArgs),
+    /// Attractor moduli: the moduli where the higher normal function nu is an integer.
+    Attractors(AttractorsArgs),
     /// The built-in demonstration, written into out/tour/.
     Tour {
         /// Output directory.
@@ -61,6 +65,36 @@ struct SpectrumArgs {
     /// Largest basis of the adaptive ladder 200, 300, 450, 675, 1013, ... (it stops once the digits are reached)
     #[arg(long, default_value_t = 1013)]
     max_basis: usize,
+    /// Decimal digits wanted.
+    #[arg(long, default_value_t = 16)]
+    digits: u32,
+    /// Print one JSON document instead of the table.
+    #[arg(long)]
+    json: bool,
+}
+
+#[derive(Args, Clone)]
+struct PeriodsArgs {
+    #[command(flatten)]
+    family: FamilyArgs,
+    /// The modulus a (a decimal number above the spectral threshold).
+    #[arg(long, allow_hyphen_values = true)]
+    modulus: String,
+    /// Decimal digits of the working precision.
+    #[arg(long, default_value_t = 30)]
+    digits: u32,
+    /// Print one JSON document instead of the table.
+    #[arg(long)]
+    json: bool,
+}
+
+#[derive(Args, Clone)]
+struct AttractorsArgs {
+    #[command(flatten)]
+    family: FamilyArgs,
+    /// Levels: an inclusive range A..B or one level n.
+    #[arg(long, default_value = "0..5")]
+    levels: String,
     /// Decimal digits wanted.
     #[arg(long, default_value_t = 16)]
     digits: u32,
@@ -110,6 +144,8 @@ fn main() -> ExitCode {
     let result = match cli.command {
         Command::Families { json } => families(json),
         Command::Spectrum(args) => spectrum_command(&args),
+        Command::Periods(args) => periods_command(&args),
+        Command::Attractors(args) => attractors_command(&args),
         Command::Tour { out } => tour(&out),
     };
     match result {
@@ -172,6 +208,53 @@ fn run_spectrum(args: &SpectrumArgs) -> Result<(Value, String), Failure> {
 
 fn spectrum_command(args: &SpectrumArgs) -> Result<(), Failure> {
     let (doc, table) = run_spectrum(args)?;
+    if args.json {
+        println!("{}", serde_json::to_string_pretty(&doc).expect("JSON"));
+    } else {
+        print!("{table}");
+    }
+    Ok(())
+}
+
+fn periods_command(args: &PeriodsArgs) -> Result<(), Failure> {
+    check_digits(args.digits)?;
+    let sel = select(&args.family)?;
+    let bits = with_guard(bits_for_digits(args.digits as f64));
+    let a = selection::parse_modulus(&args.modulus, bits, &sel.laurent)?;
+    let start = Instant::now();
+    let terms = sel.laurent.constant_terms(2000).map_err(Failure::compute)?;
+    let ac = rug::Complex::with_val(bits, (&a, 0));
+    let cmp = periods::compare(&sel.laurent, &ac, &terms).map_err(Failure::compute)?;
+    let elapsed = start.elapsed().as_secs_f64();
+    let mut inputs = family_inputs(&args.family, &sel);
+    inputs["modulus"] = json!(args.modulus);
+    inputs["digits"] = json!(args.digits);
+    if args.json {
+        let doc = report::periods_json(sel.family.id, &cmp, args.digits, bits, inputs, elapsed);
+        println!("{}", serde_json::to_string_pretty(&doc).expect("JSON"));
+    } else {
+        print!("{}", report::periods_table(sel.family.id, args.modulus.trim(), &cmp, args.digits, bits, elapsed));
+    }
+    Ok(())
+}
+
+fn run_attractors(args: &AttractorsArgs) -> Result<(Value, String), Failure> {
+    check_digits(args.digits)?;
+    let sel = select(&args.family)?;
+    let levels = selection::parse_levels(&args.levels)?;
+    let start = Instant::now();
+    let list = attractor::solve_levels(&sel.laurent, levels.clone(), args.digits).map_err(Failure::compute)?;
+    let elapsed = start.elapsed().as_secs_f64();
+    let mut inputs = family_inputs(&args.family, &sel);
+    inputs["levels"] = json!([levels.start(), levels.end()]);
+    inputs["digits"] = json!(args.digits);
+    let doc = report::attractors_json(sel.family.id, &list, args.digits, inputs, elapsed);
+    let table = report::attractors_table(sel.family.id, &list, args.digits, elapsed);
+    Ok((doc, table))
+}
+
+fn attractors_command(args: &AttractorsArgs) -> Result<(), Failure> {
+    let (doc, table) = run_attractors(args)?;
     if args.json {
         println!("{}", serde_json::to_string_pretty(&doc).expect("JSON"));
     } else {

@@ -242,7 +242,7 @@ pub fn beta_loop<T: CNum>(curve: &Curve<T>, singular: &[Singular<T>]) -> Result<
 
 /// A closed polyline at distance δ around the segment [a, b], counter-clockwise, starting and
 /// ending at the middle of the upper side.
-fn stadium(a: [f64; 2], b: [f64; 2], delta: f64) -> Vec<[f64; 2]> {
+pub fn stadium(a: [f64; 2], b: [f64; 2], delta: f64) -> Vec<[f64; 2]> {
     let d = [b[0] - a[0], b[1] - a[1]];
     let len = (d[0] * d[0] + d[1] * d[1]).sqrt();
     let u = [d[0] / len, d[1] / len];
@@ -267,6 +267,25 @@ fn stadium(a: [f64; 2], b: [f64; 2], delta: f64) -> Vec<[f64; 2]> {
     out
 }
 
+/// Ω and R over any closed polyline (z-values) on the cover, starting on the root of larger
+/// modulus at its first point.
+///
+/// # Errors
+/// [`PeriodsError::BetaNotClosed`] if the loop does not return to its sheet; see
+/// [`crate::cover::continue_along`].
+pub fn loop_periods<T: CNum>(curve: &Curve<T>, singular: &[Singular<T>], polyline: &[[f64; 2]], march: &March) -> Result<CyclePeriods<T>, PeriodsError> {
+    let prec = curve.modulus().prec();
+    let path: Vec<T> = polyline.iter().map(|p| T::from_f64s(p[0], p[1], prec)).collect();
+    let [y0, _] = curve.roots(&path[0]);
+    let start = Point { z: path[0].clone(), y: y0 };
+    let (end, ints) = continue_along(curve, singular, &start, &path, march)?;
+    let closure = (end.y.clone() - start.y.clone()).abs_f64() / start.y.abs_f64();
+    if closure > 1e-6 {
+        return Err(PeriodsError::BetaNotClosed);
+    }
+    Ok(regulator_of(ints, &start))
+}
+
 /// Ω_β and R_β on the loop of [`beta_loop`], oriented so that Im(Ω_β/Ω_α) > 0.
 ///
 /// # Errors
@@ -278,16 +297,7 @@ pub fn beta_path<T: CNum>(
     march: &March,
 ) -> Result<(CyclePeriods<T>, BetaLoop), PeriodsError> {
     let lp = beta_loop(curve, singular)?;
-    let prec = curve.modulus().prec();
-    let path: Vec<T> = lp.polyline.iter().map(|p| T::from_f64s(p[0], p[1], prec)).collect();
-    let [y0, _] = curve.roots(&path[0]);
-    let start = Point { z: path[0].clone(), y: y0 };
-    let (end, ints) = continue_along(curve, singular, &start, &path, march)?;
-    let closure = (end.y.clone() - start.y.clone()).abs_f64() / start.y.abs_f64();
-    if closure > 1e-6 {
-        return Err(PeriodsError::BetaNotClosed);
-    }
-    let mut p = regulator_of(ints, &start);
+    let mut p = loop_periods(curve, singular, &lp.polyline, march)?;
     let tau = p.omega.clone() / omega_alpha.clone();
     if tau.im_f64() < 0.0 {
         p.omega = -p.omega;
@@ -345,6 +355,42 @@ pub fn periods<T: CNum>(laurent: &Laurent, a: T, digits: f64, alpha: Option<Cycl
     let nu_error = scale
         * (beta.error + tau.abs_f64() * alpha.error + alpha.regulator.abs_f64() * (beta.error + tau.abs_f64() * alpha.error) / alpha.omega.abs_f64());
     Ok(Periods { alpha, beta, tau, nu, nu_da, nu_daa, beta_loop, nu_error })
+}
+
+/// Ω_α and R_α by both methods with their agreement, and the path periods at modulus `a`.
+#[derive(Debug, Clone)]
+pub struct Comparison {
+    /// The series values (None when |a| is not above the series radius φ(1,1)).
+    pub series: Option<CyclePeriods<Complex>>,
+    /// Why the series is absent.
+    pub series_note: Option<String>,
+    /// Everything by path integration.
+    pub path: Periods<Complex>,
+    /// Decimal digits on which series and path agree for Ω_α and R_α (the smaller).
+    pub agreement_digits: Option<f64>,
+}
+
+/// [`Comparison`] at modulus a (real or complex), `bits` bits.
+///
+/// # Errors
+/// See [`PeriodsError`].
+pub fn compare(laurent: &Laurent, a: &Complex, constant_terms: &[Integer]) -> Result<Comparison, PeriodsError> {
+    let bits = CNum::prec(a);
+    let (series, series_note) = match alpha_series(constant_terms, laurent.coefficient_sum(), a) {
+        Ok(s) => (Some(s), None),
+        Err(e) => (None, Some(e.to_string())),
+    };
+    let path = periods(laurent, a.clone(), crate::precision::digits_for_bits(bits) as f64, None)?;
+    let agreement_digits = series.as_ref().map(|s| {
+        let rel = |x: &Complex, y: &Complex| (x.clone() - y.clone()).abs_f64() / y.abs_f64();
+        let worst = rel(&s.omega, &path.alpha.omega).max(rel(&s.regulator, &path.alpha.regulator));
+        if worst == 0.0 {
+            crate::precision::digits_for_bits(bits) as f64
+        } else {
+            -worst.log10()
+        }
+    });
+    Ok(Comparison { series, series_note, path, agreement_digits })
 }
 
 /// Re-exported so callers need not import the cover module for settings.

@@ -188,3 +188,125 @@ mod tests {
         assert_eq!(supported_digits(&x, 0.0, 30), 30);
     }
 }
+
+/// A complex number as `{"re", "im"}` decimal strings with `digits` significant digits.
+pub fn complex_json(z: &rug::Complex, digits: u32) -> Value {
+    json!({ "re": decimal(z.real(), digits), "im": decimal(z.imag(), digits) })
+}
+
+/// `regwave periods --json`.
+pub fn periods_json(family: &str, c: &crate::periods::Comparison, digits: u32, bits: u32, inputs: Value, elapsed_s: f64) -> Value {
+    let p = &c.path;
+    let cj = |z: &rug::Complex| complex_json(z, digits);
+    let series = c.series.as_ref().map(|s| json!({ "omega_alpha": cj(&s.omega), "r_alpha": cj(&s.regulator), "error_estimate": sci(s.error) }));
+    json!({
+        "family": family,
+        "omega_alpha": cj(&p.alpha.omega),
+        "omega_beta": cj(&p.beta.omega),
+        "r_alpha": cj(&p.alpha.regulator),
+        "r_beta": cj(&p.beta.regulator),
+        "tau": cj(&p.tau),
+        "nu": cj(&p.nu),
+        "nu_derivative": cj(&p.nu_da),
+        "nu_error_estimate": sci(p.nu_error),
+        "agreement_digits": c.agreement_digits.map(|d| (d * 10.0).floor() / 10.0),
+        "series": series,
+        "series_note": c.series_note,
+        "path": {
+            "alpha_error_estimate": sci(p.alpha.error),
+            "beta_error_estimate": sci(p.beta.error),
+            "beta_branch_points": p.beta_loop.branch_points,
+            "beta_encloses_puncture": p.beta_loop.encloses_puncture,
+        },
+        "precision_bits": bits,
+        "tool_version": TOOL_VERSION,
+        "inputs": inputs,
+        "elapsed_s": elapsed_s,
+        "note": "numerical evidence: path integrals with a-priori error estimates, series with rigorous tail bounds",
+    })
+}
+
+/// `regwave periods` as a table.
+pub fn periods_table(family: &str, a: &str, c: &crate::periods::Comparison, digits: u32, bits: u32, elapsed_s: f64) -> String {
+    let p = &c.path;
+    let z = |z: &rug::Complex| format!("{} {}{} i", decimal(z.real(), digits), if z.imag().is_sign_negative() { "-" } else { "+" }, decimal(&Float::with_val(z.prec().0, z.imag().abs_ref()), digits));
+    let mut out = format!("family {family}, modulus a = {a}: periods of phi + a = 0 ({bits} bits, {elapsed_s:.2} s)\n\n");
+    let rows = [
+        ("Omega_alpha (path)", z(&p.alpha.omega)),
+        ("R_alpha (path)", z(&p.alpha.regulator)),
+        ("Omega_beta (path)", z(&p.beta.omega)),
+        ("R_beta (path)", z(&p.beta.regulator)),
+        ("tau", z(&p.tau)),
+        ("nu", z(&p.nu)),
+    ];
+    for (k, v) in rows {
+        out.push_str(&format!("  {k:<20} {v}\n"));
+    }
+    match (&c.series, c.agreement_digits) {
+        (Some(s), Some(d)) => {
+            out.push_str(&format!("  {:<20} {}\n  {:<20} {}\n", "Omega_alpha (series)", z(&s.omega), "R_alpha (series)", z(&s.regulator)));
+            out.push_str(&format!("\nseries and path agree to {:.1} digits for Omega_alpha and R_alpha.\n", d));
+        }
+        _ => out.push_str(&format!("\nno series: {}\n", c.series_note.clone().unwrap_or_default())),
+    }
+    out.push_str(&format!(
+        "beta: loop around the branch points {:.4}{:+.4}i and {:.4}{:+.4}i{}\n",
+        p.beta_loop.branch_points[0][0],
+        p.beta_loop.branch_points[0][1],
+        p.beta_loop.branch_points[1][0],
+        p.beta_loop.branch_points[1][1],
+        if p.beta_loop.encloses_puncture { " (enclosing the puncture z = 0)" } else { "" }
+    ));
+    out
+}
+
+/// `regwave attractors --json`.
+pub fn attractors_json(family: &str, list: &[crate::attractor::Attractor], digits: u32, inputs: Value, elapsed_s: f64) -> Value {
+    let items: Vec<Value> = list
+        .iter()
+        .map(|a| {
+            json!({
+                "level": a.level,
+                "nu": a.nu,
+                "modulus": decimal(&a.modulus, a.digits.max(1)),
+                "log_modulus": decimal(&a.log_modulus, a.digits.max(1)),
+                "digits": a.digits,
+                "residual": sci(a.residual),
+                "imaginary_part_of_nu": sci(a.imaginary_part),
+            })
+        })
+        .collect();
+    json!({
+        "family": family,
+        "attractors": items,
+        "digits": digits,
+        "level_rule": "nu(a_n) = n + 1",
+        "precision_bits": list.first().map(|a| a.precision_bits),
+        "tool_version": TOOL_VERSION,
+        "inputs": inputs,
+        "elapsed_s": elapsed_s,
+        "note": "digits are those confirmed by a second solve at higher working precision (numerical evidence, not proofs)",
+    })
+}
+
+/// `regwave attractors` as a table.
+pub fn attractors_table(family: &str, list: &[crate::attractor::Attractor], digits: u32, elapsed_s: f64) -> String {
+    let mut out = format!("family {family}: attractor moduli (nu(a) integer, level n <-> nu = n + 1), {digits} digits, {elapsed_s:.2} s\n\n");
+    out.push_str(&format!("{:>5} {:>4}  {:<width$}  {}\n", "level", "nu", "a_n", "log a_n", width = (digits as usize + 8).max(12)));
+    for a in list {
+        out.push_str(&format!(
+            "{:>5} {:>4}  {:<width$}  {}\n",
+            a.level,
+            a.nu,
+            decimal(&a.modulus, a.digits.max(1)),
+            decimal(&a.log_modulus, a.digits.max(1)),
+            width = (digits as usize + 8).max(12)
+        ));
+    }
+    let short: Vec<String> = list.iter().filter(|a| a.digits < digits).map(|a| format!("{} ({} digits)", a.level, a.digits)).collect();
+    if !short.is_empty() {
+        out.push_str(&format!("\nconfirmed to fewer digits than requested: {}\n", short.join(", ")));
+    }
+    out.push_str("\nDigits shown are those confirmed by a second solve at higher precision (numerical evidence, not proofs).\n");
+    out
+}

@@ -18,7 +18,7 @@ use std::ops::RangeInclusive;
 use thiserror::Error;
 
 /// A selection that cannot be used.
-#[derive(Debug, Clone, PartialEq, Eq, Error)]
+#[derive(Debug, Clone, PartialEq, Error)]
 #[non_exhaustive]
 pub enum SelectionError {
     #[error(transparent)]
@@ -33,6 +33,10 @@ pub enum SelectionError {
     Missing,
     #[error("cannot read the level range {text:?}: {reason}; use A..B (inclusive, A ≤ B) or a single level n")]
     Levels { text: String, reason: String },
+    #[error("cannot read the modulus {text:?}: {reason}; give a finite decimal number such as 17.8466")]
+    Modulus { text: String, reason: String },
+    #[error("the modulus {modulus} is not above the spectral threshold {threshold:.6} (the minimum of phi on x, y > 0); eigenvalues and attractor moduli lie above it")]
+    BelowThreshold { modulus: String, threshold: f64 },
 }
 
 /// The family and polynomial a command works on.
@@ -93,6 +97,26 @@ pub fn resolve(family: Option<&str>, vertices: Option<&str>, coefficients: Optio
 
 fn apply(m: &Mat2, p: [i64; 2]) -> [i64; 2] {
     [m[0][0] * p[0] + m[0][1] * p[1], m[1][0] * p[0] + m[1][1] * p[1]]
+}
+
+/// Parses a real modulus `a` at `bits` bits and checks it lies above the spectral threshold
+/// (the classical minimum of φ on the positive quadrant).
+///
+/// # Errors
+/// [`SelectionError::Modulus`] for malformed or non-finite text,
+/// [`SelectionError::BelowThreshold`].
+pub fn parse_modulus(text: &str, bits: u32, laurent: &Laurent) -> Result<rug::Float, SelectionError> {
+    let err = |reason: &str| SelectionError::Modulus { text: text.to_string(), reason: reason.to_string() };
+    let parsed = rug::Float::parse(text.trim()).map_err(|_| err("not a decimal number"))?;
+    let a = rug::Float::with_val(bits, parsed);
+    if !a.is_finite() {
+        return Err(err("not finite"));
+    }
+    let (_, threshold) = laurent.classical_minimum();
+    if a.to_f64() <= threshold {
+        return Err(SelectionError::BelowThreshold { modulus: text.trim().to_string(), threshold });
+    }
+    Ok(a)
 }
 
 /// Parses `A..B` (inclusive) or `n`.

@@ -35,3 +35,86 @@ fn checked_values_at_thirty_digits() {
     eprintln!("{:?}", t.elapsed());
 }
 
+
+#[test]
+fn attractor_moduli_are_the_independent_eigenvalues_for_every_family() {
+    // Levels 0..5 of all 15 families: ν(a_n) = n + 1 at the harmonic-oscillator eigenvalues, to
+    // the digits the spectrum supports (≥ 12 for F0, P2, dP3: MATH.md §4 / issue requirement).
+    use regwave::catalogue;
+    use regwave::spectrum::{self, SpectrumOptions};
+    for f in catalogue::all().iter().filter(|f| f.applicable) {
+        let l = family(f.id);
+        let main = ["F0", "P2", "dP3"].contains(&f.id);
+        let opts = SpectrumOptions { levels: 0..=5, basis: 200, max_basis: if main { 675 } else { 450 }, digits: 16, squeeze: 1.0 };
+        let spec = spectrum::solve(&l, &opts).unwrap();
+        let at = attractor::solve_levels(&l, 0..=5, 20).unwrap();
+        for (s, a) in spec.levels.iter().zip(&at) {
+            let diff = Float::with_val(128, &s.value - &a.modulus).to_f64().abs();
+            let rel = diff / a.modulus.to_f64();
+            assert!(
+                diff <= 10.0 * s.error_estimate + 1e-15 * a.modulus.to_f64(),
+                "{} level {}: attractor {} vs spectrum {} (estimate {:e})",
+                f.id,
+                s.level,
+                a.modulus,
+                s.value,
+                s.error_estimate
+            );
+            if main {
+                assert!(rel < 1e-12, "{} level {}: only {:.1} digits", f.id, s.level, -rel.log10());
+            }
+        }
+    }
+}
+
+#[test]
+fn forty_digits_survive_doubling_the_working_precision() {
+    // F0 and P2, levels 0..3 at 40 digits: the moduli change by less than 1e-38 (relative) when
+    // the working precision is doubled.
+    use regwave::precision::{bits_for_digits, with_guard};
+    for id in ["F0", "P2"] {
+        let l = family(id);
+        let bits = with_guard(bits_for_digits(40.0));
+        let base = attractor::solve_levels_at(&l, 0..=3, 40, bits).unwrap();
+        let doubled = attractor::solve_levels_at(&l, 0..=3, 40, 2 * bits).unwrap();
+        for (x, y) in base.iter().zip(&doubled) {
+            let rel = (Float::with_val(2 * bits, &x.modulus - &y.modulus) / &y.modulus).to_f64().abs();
+            assert!(rel < 1e-38, "{id} level {}: {rel:e}", x.level);
+            assert!(x.digits >= 39, "{id} level {}: {} digits", x.level, x.digits);
+        }
+    }
+}
+
+#[test]
+fn spectral_asymptotics_from_the_perturbative_volumes() {
+    // log a_n − π√(n + 5/6) → 0 for F0 and log a_n − π√(2(4n+3)/9) → 0 for P2, exponentially
+    // ("Topological strings from quantum mechanics", arXiv:1410.3382): the gap shrinks with n.
+    let pi = std::f64::consts::PI;
+    let cases: [(&str, fn(f64) -> f64); 2] =
+        [("F0", |n| std::f64::consts::PI * (n + 5.0 / 6.0).sqrt()), ("P2", |n| std::f64::consts::PI * (2.0 * (4.0 * n + 3.0) / 9.0).sqrt())];
+    let _ = pi;
+    for (id, volume) in cases {
+        let at = attractor::solve_levels(&family(id), 0..=9, 16).unwrap();
+        let gaps: Vec<f64> = at.iter().map(|a| (a.log_modulus.to_f64() - volume(a.level as f64)).abs()).collect();
+        for w in gaps.windows(2) {
+            assert!(w[1] < w[0], "{id}: gaps {gaps:?} do not shrink");
+        }
+        assert!(gaps[9] < 1e-3 * gaps[0].max(1e-300) || gaps[9] < 1e-6, "{id}: gaps {gaps:?}");
+    }
+}
+
+#[test]
+fn perturbed_modulus_is_not_an_attractor() {
+    // Negative companion: ν at a modulus 1e-6 off the attractor value is ≥ 1e-8 away from an
+    // integer (the check can fail).
+    let l = family("dP3");
+    let at = attractor::solve_levels(&l, 1..=1, 30).unwrap();
+    let mut fam = attractor::Family::new(&l).unwrap();
+    let bits = at[0].precision_bits;
+    let off = Float::with_val(bits, &at[0].modulus * Float::with_val(bits, 1.000001));
+    let (nu, _, _, _) = fam.nu(&off, bits).unwrap();
+    let dist = Float::with_val(bits, &nu - 2u32).to_f64().abs();
+    assert!(dist > 1e-8, "ν moved only {dist:e}");
+    let (nu0, _, _, _) = fam.nu(&at[0].modulus, bits).unwrap();
+    assert!(Float::with_val(bits, &nu0 - 2u32).to_f64().abs() < 1e-28);
+}

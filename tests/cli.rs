@@ -117,3 +117,48 @@ fn tour_writes_its_files() {
 fn unwritable_output_is_a_clear_error() {
     rejects(&["tour", "--out", "/proc/regwave-cannot-write-here"], "cannot");
 }
+
+#[test]
+fn attractors_json_contract_and_values() {
+    let o = regwave(&["attractors", "--family", "F0", "--levels", "0..1", "--digits", "30", "--json"]);
+    assert!(o.status.success(), "{}", stderr(&o));
+    let v: serde_json::Value = serde_json::from_slice(&o.stdout).unwrap();
+    for key in ["family", "attractors", "digits", "tool_version", "inputs", "elapsed_s"] {
+        assert!(v.get(key).is_some(), "missing {key}");
+    }
+    let list = v["attractors"].as_array().unwrap();
+    for (item, want) in list.iter().zip(["17.846643118044799282389997", "70.428043469428353462422178"]) {
+        for key in ["level", "nu", "modulus", "log_modulus"] {
+            assert!(item.get(key).is_some(), "missing {key}");
+        }
+        // MATH.md §4 checked values.
+        assert!(item["modulus"].as_str().unwrap().starts_with(want), "{item}");
+    }
+}
+
+#[test]
+fn periods_json_contract() {
+    let o = regwave(&["periods", "--family", "P2", "--modulus", "12.970039821793337437623954", "--digits", "30", "--json"]);
+    assert!(o.status.success(), "{}", stderr(&o));
+    let v: serde_json::Value = serde_json::from_slice(&o.stdout).unwrap();
+    for key in ["omega_alpha", "omega_beta", "r_alpha", "r_beta", "tau", "nu", "agreement_digits", "tool_version", "inputs", "elapsed_s"] {
+        assert!(v.get(key).is_some(), "missing {key}");
+    }
+    assert!(v["agreement_digits"].as_f64().unwrap() >= 30.0);
+    let nu_re: f64 = v["nu"]["re"].as_str().unwrap().parse().unwrap();
+    assert!((nu_re - 1.0).abs() < 1e-20, "{nu_re}");
+}
+
+#[test]
+fn bad_moduli_digits_and_levels() {
+    rejects(&["periods", "--family", "F0", "--modulus", "3.5"], "spectral threshold");
+    rejects(&["periods", "--family", "F0", "--modulus", "inf"], "not finite");
+    rejects(&["periods", "--family", "F0", "--modulus", "nan"], "modulus");
+    rejects(&["periods", "--family", "F0", "--modulus", "abc"], "cannot read the modulus");
+    rejects(&["periods", "--family", "F0", "--modulus", "20", "--digits", "7"], "--digits 7");
+    rejects(&["attractors", "--family", "F0", "--digits", "1001"], "--digits 1001");
+    rejects(&["attractors", "--family", "F0", "--levels", "3..1"], "reversed");
+    rejects(&["attractors", "--family", "F0", "--levels", ""], "level");
+    // The one reflexive class without a strip form has no β rule: not applicable.
+    rejects(&["attractors", "--family", "P2*"], "not applicable");
+}
