@@ -107,7 +107,7 @@ fn tour_writes_its_files() {
     let dir = std::env::temp_dir().join(format!("regwave-tour-{}", std::process::id()));
     let o = regwave(&["tour", "--out", dir.to_str().unwrap()]);
     assert!(o.status.success(), "{}", stderr(&o));
-    for f in ["report.md", "families.json", "families.txt", "spectrum-F0.json", "spectrum-P2.json", "spectrum-dP3.json"] {
+    for f in ["report.md", "families.json", "families.txt", "spectrum-F0.json", "spectrum-P2.json", "spectrum-dP3.json", "attractors-F0.json", "attractors-P2.json", "attractors-dP3.json"] {
         assert!(dir.join(f).is_file(), "missing {f}");
     }
     let _ = std::fs::remove_dir_all(&dir);
