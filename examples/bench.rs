@@ -55,6 +55,17 @@ fn main() {
     }
     println!("  total {:.2} s wall clock", t.elapsed().as_secs_f64());
 
+    println!("target: one periods call at 50 digits under 1 s");
+    for id in ["F0", "P2", "dP3", "Q7"] {
+        let laurent = Laurent::tempered(&catalogue::by_id(id).expect("id").polygon());
+        let t = Instant::now();
+        let terms = laurent.constant_terms(2000).expect("terms");
+        let bits = regwave::precision::with_guard(regwave::precision::bits_for_digits(50.0));
+        let a = rug::Complex::with_val(bits, 200);
+        let c = regwave::periods::compare(&laurent, &a, &terms).expect("periods");
+        println!("  {id:<5} a = 200: {:.3} s (series/path agreement {:.1} digits)", t.elapsed().as_secs_f64(), c.agreement_digits.unwrap_or(0.0));
+    }
+
     println!("target: [phi^n]_0 for n <= 2000 under 0.5 s");
     for id in ["F0", "P2", "dP3", "F0*"] {
         let laurent = Laurent::tempered(&catalogue::by_id(id).expect("id").polygon());

@@ -137,6 +137,7 @@ impl Family {
             regulator: c.regulator.to_c64(),
             omega_da: c.omega_da.to_c64(),
             omega_daa: c.omega_daa.to_c64(),
+            steps: 0,
             error: c.error,
         });
         let p = periods::periods(&self.laurent, Complex64::new(a, 0.0), 15.0, alpha)?;
@@ -153,6 +154,23 @@ impl Family {
     /// bisection.
     fn root_f64(&mut self, k: i64, t0: f64) -> Result<f64, AttractorError> {
         let target = k as f64;
+        // Plain Newton first (the guesses are good); the bracketing search below is the fallback.
+        let mut t = t0;
+        for _ in 0..8 {
+            let Ok((v, dv)) = self.nu_f64(t) else { break };
+            let f = v - target;
+            if f.abs() < 1e-13 * target.abs().max(1.0) {
+                return Ok(t);
+            }
+            if !(dv > 0.0) {
+                break;
+            }
+            let step = (f / dv).clamp(-0.5, 0.5);
+            t -= step;
+            if step.abs() < 1e-15 * t.abs() {
+                return Ok(t);
+            }
+        }
         let (mut lo, mut hi) = (t0, t0);
         let (f0, _) = self.nu_f64(t0)?;
         let (mut flo, mut fhi) = (f0 - target, f0 - target);

@@ -14,7 +14,7 @@
 //!
 //! # Continuation
 //! Along each segment of a polyline the step is `h = min(h_max, κ · dist(z, singular set))`
-//! (κ = 0.5, h_max = 0.5); on each step an n-point Gauss–Legendre rule integrates ω and η, the
+//! (κ = 0.5, h_max = 2); on each step an n-point Gauss–Legendre rule integrates ω and η, the
 //! root being followed node by node: predictor `y · exp(dlog y · Δz)`, then the nearer root.
 //! If the two roots are not clearly separated relative to the prediction error the continuation
 //! stops with [`CoverError::SheetAmbiguous`] rather than guess.
@@ -41,7 +41,7 @@ use thiserror::Error;
 /// Step factor κ: step ≤ κ · distance to the nearest singular point (ρ ≥ 5.8, see above).
 pub const STEP_FACTOR: f64 = 0.5;
 /// Largest step.
-pub const MAX_STEP: f64 = 0.5;
+pub const MAX_STEP: f64 = 2.0;
 
 /// Why a continuation or a root computation failed.
 #[derive(Debug, Clone, PartialEq, Error)]
@@ -538,11 +538,26 @@ fn newton_polygon_guesses<T: CNum>(monic: &[T], prec: u32) -> Vec<T> {
     out
 }
 
+/// A closed polygonal circle of radius r around the point c (z-plane, f64), counter-clockwise,
+/// starting and ending at c + r. Continuing a root once around a single branch point along it
+/// lands on the other sheet (y ↦ ιy = C/(A y)).
+pub fn circle_around(c: [f64; 2], r: f64, vertices: usize) -> Vec<[f64; 2]> {
+    (0..=vertices)
+        .map(|k| {
+            let t = 2.0 * std::f64::consts::PI * k as f64 / vertices as f64;
+            [c[0] + r * t.cos(), c[1] + r * t.sin()]
+        })
+        .collect()
+}
+
 /// Continuation settings.
 #[derive(Debug, Clone)]
 pub struct March {
-    /// Gauss–Legendre nodes per step.
+    /// Largest number of Gauss–Legendre nodes per step (the worst case ρ = 5.8).
     pub nodes: usize,
+    /// Decimal digits each step must deliver: the nodes of a step are chosen from the Bernstein
+    /// ellipse of its actual nearest singular points, `n = ⌈digits·ln 10 / (2 ln ρ)⌉ + 4`.
+    pub digits: f64,
     /// Step factor κ.
     pub step_factor: f64,
     /// Largest step.
@@ -554,7 +569,7 @@ pub struct March {
 impl March {
     /// Settings for `digits` decimal digits.
     pub fn for_digits(digits: f64) -> Self {
-        March { nodes: (0.66 * digits + 6.0).ceil() as usize, step_factor: STEP_FACTOR, max_step: MAX_STEP, min_distance: 1e-30 }
+        March { nodes: (0.66 * digits + 6.0).ceil() as usize, digits, step_factor: STEP_FACTOR, max_step: MAX_STEP, min_distance: 1e-30 }
     }
 }
 
@@ -572,7 +587,7 @@ pub fn continue_along<T: CNum>(
 ) -> Result<(Point<T>, PathIntegrals<T>), CoverError> {
     let sing: Vec<[f64; 2]> = singular.iter().map(|s| [s.z.re_f64(), s.z.im_f64()]).collect();
     let dist = |z: &T| sing.iter().map(|s| periodic_distance([z.re_f64(), z.im_f64()], *s)).fold(f64::INFINITY, f64::min);
-    let rule = quad::rule_for(march.nodes, &start.z);
+    let mut rules: Vec<Option<Vec<(T, T)>>> = vec![None; march.nodes + 8];
     let mut here = start.clone();
     let mut acc = PathIntegrals::zero(&start.z);
     let two = start.z.int_like(2);
@@ -585,13 +600,19 @@ pub fn continue_along<T: CNum>(
                 break;
             }
             let d = dist(&here.z);
-            if d < march.min_distance {
+            // Below the working precision relative to |z| a step could not even move z.
+            let floor = march.min_distance.max(2f64.powi(16 - start.z.prec() as i32) * (1.0 + here.z.abs_f64()));
+            if d < floor {
                 return Err(CoverError::ThroughSingularPoint { z: format!("{:?}", here.z.to_c64()), distance: d });
             }
             let h = (march.step_factor * d).min(march.max_step);
             let end = if rem <= h * 1.0000001 { target.clone() } else { here.z.clone() + remaining * T::from_f64s(h / rem, 0.0, start.z.prec()) };
             let half = (end.clone() - here.z.clone()) / two.clone();
             let mid = (end.clone() + here.z.clone()) / two.clone();
+            let rho = bernstein_parameter([mid.re_f64(), mid.im_f64()], [half.re_f64(), half.im_f64()], &sing);
+            let nodes = ((march.digits * std::f64::consts::LN_10 / (2.0 * rho.ln())).ceil() as usize + 4).div_ceil(4) * 4;
+            let nodes = nodes.clamp(8, march.nodes.div_ceil(4) * 4);
+            let rule = rules[nodes].get_or_insert_with(|| quad::rule_for(nodes, &start.z)).clone();
             let mut y = here.y.clone();
             let mut z_prev = here.z.clone();
             let start_fiber = curve.fiber(&z_prev);
@@ -635,14 +656,36 @@ pub fn continue_along<T: CNum>(
             acc.omega_da = acc.omega_da + sum_da * half.clone();
             acc.omega_daa = acc.omega_daa + sum_daa * half.clone();
             let hh = 2.0 * half.abs_f64();
-            // A-priori Gauss–Legendre bound with ρ ≳ 5.8 plus rounding (module docs).
-            acc.error += hh * size * (5.8f64.powi(-2 * march.nodes as i32) + eps * march.nodes as f64);
+            // A-priori Gauss–Legendre bound for this step's ellipse plus rounding (module docs).
+            acc.error += hh * size * (rho.powi(-2 * nodes as i32) + eps * nodes as f64);
             acc.steps += 1;
             here = Point { z: end, y };
         }
     }
     acc.dz = here.z.clone() - start.z.clone();
     Ok((here, acc))
+}
+
+/// The smallest Bernstein-ellipse parameter ρ of the singular points (and their 2πi
+/// translates) for the segment `mid ± half`: for a singularity at p, with w = (p − mid)/half,
+/// ρ = |w + √(w² − 1)| (the branch with modulus ≥ 1).
+fn bernstein_parameter(mid: [f64; 2], half: [f64; 2], singular: &[[f64; 2]]) -> f64 {
+    use num_complex::Complex64;
+    let m = Complex64::new(mid[0], mid[1]);
+    let h = Complex64::new(half[0], half[1]);
+    let two_pi = 2.0 * std::f64::consts::PI;
+    let mut best = f64::INFINITY;
+    for s in singular {
+        let k0 = ((mid[1] - s[1]) / two_pi).round();
+        for dk in [-1.0, 0.0, 1.0] {
+            let p = Complex64::new(s[0], s[1] + (k0 + dk) * two_pi);
+            let w = (p - m) / h;
+            let r = (w * w - 1.0).sqrt();
+            let rho = (w + r).norm().max((w - r).norm());
+            best = best.min(rho);
+        }
+    }
+    best.max(1.0 + 1e-12)
 }
 
 /// The root at z continuing y from z_prev: predictor `y·(1 + w + w²/2)`, `w = slope·Δz`
@@ -702,6 +745,37 @@ mod tests {
         let expect = Float::with_val(prec, Float::with_val(prec, 1u32).agm_ref(&kp)).recip();
         let diff = Complex::with_val(prec, got - expect).abs().real().to_f64();
         assert!(diff < 1e-50, "{diff:e}, steps {}", w.steps);
+    }
+
+    #[test]
+    fn once_around_a_branch_point_is_the_other_sheet() {
+        // Monodromy of √Δ around a simple zero: the continued root is ιy = C/(A y).
+        let curve = Curve::new(&f0(), Complex64::new(20.0, 0.0)).unwrap();
+        let sing = curve.singular_points().unwrap();
+        let b = sing.iter().find(|s| s.kind == SingularKind::Branch).unwrap().z;
+        let d = sing.iter().filter(|s| (s.z - b).norm() > 1e-9).map(|s| (s.z - b).norm()).fold(f64::INFINITY, f64::min);
+        let circle: Vec<Complex64> = circle_around([b.re, b.im], 0.3 * d, 12).iter().map(|p| Complex64::new(p[0], p[1])).collect();
+        let [y0, y1] = curve.roots(&circle[0]);
+        let (end, _) = continue_along(&curve, &sing, &Point { z: circle[0], y: y0 }, &circle, &March::for_digits(15.0)).unwrap();
+        assert!((end.y - y1).norm() < 1e-10 * y1.norm(), "{} vs {}", end.y, y1);
+        // Twice around: back on the first sheet.
+        let mut twice = circle.clone();
+        twice.extend(circle.iter().skip(1));
+        let (end, _) = continue_along(&curve, &sing, &Point { z: circle[0], y: y0 }, &twice, &March::for_digits(15.0)).unwrap();
+        assert!((end.y - y0).norm() < 1e-10 * y0.norm());
+    }
+
+    #[test]
+    fn a_path_through_a_branch_point_is_refused() {
+        // Typed error, no panic, no silent sheet guess.
+        let curve = Curve::new(&f0(), Complex64::new(20.0, 0.0)).unwrap();
+        let sing = curve.singular_points().unwrap();
+        let b = sing.iter().find(|s| s.kind == SingularKind::Branch).unwrap().z;
+        let start = b - Complex64::new(0.5, 0.0);
+        let path = vec![start, b + Complex64::new(0.5, 0.0)];
+        let [y0, _] = curve.roots(&start);
+        let r = continue_along(&curve, &sing, &Point { z: start, y: y0 }, &path, &March::for_digits(15.0));
+        assert!(matches!(r, Err(CoverError::ThroughSingularPoint { .. }) | Err(CoverError::SheetAmbiguous { .. })), "{r:?}");
     }
 
     fn agm_f64(mut a: f64, mut b: f64) -> f64 {

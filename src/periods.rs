@@ -67,6 +67,8 @@ pub struct CyclePeriods<T> {
     pub omega_da: T,
     /// d²Ω/da².
     pub omega_daa: T,
+    /// Integration steps taken (0 for the series).
+    pub steps: usize,
     /// Estimated absolute error (the larger of the two).
     pub error: f64,
 }
@@ -114,7 +116,7 @@ pub fn alpha_series(constant_terms: &[Integer], coefficient_sum: i64, a: &Comple
     let regulator = -(two_pi_i * (a.clone().ln() - reg_sum));
     let tail = ratio.powi(needed as i32) / (1.0 - ratio);
     let error = tail * (omega.abs_f64() + regulator.abs_f64()) + 2f64.powi(-(prec as i32) + 8) * regulator.abs_f64();
-    Ok(CyclePeriods { omega, regulator, omega_da, omega_daa, error })
+    Ok(CyclePeriods { omega, regulator, omega_da, omega_daa, steps: 0, error })
 }
 
 /// The real part z_α of the α circle |x| = e^{z_α}.
@@ -144,7 +146,7 @@ pub fn alpha_path<T: CNum>(curve: &Curve<T>, singular: &[Singular<T>], march: &M
 fn regulator_of<T: CNum>(ints: PathIntegrals<T>, start: &Point<T>) -> CyclePeriods<T> {
     let log_start = (-start.y.clone()).ln();
     let regulator = ints.eta.clone() - log_start * ints.dz.clone();
-    CyclePeriods { omega: ints.omega, regulator, omega_da: ints.omega_da, omega_daa: ints.omega_daa, error: ints.error }
+    CyclePeriods { omega: ints.omega, regulator, omega_da: ints.omega_da, omega_daa: ints.omega_daa, steps: ints.steps, error: ints.error }
 }
 
 /// The β cycle chosen by the module's rule: its polyline (closed) and the two branch points.

@@ -214,6 +214,8 @@ pub fn periods_json(family: &str, c: &crate::periods::Comparison, digits: u32, b
         "series_note": c.series_note,
         "path": {
             "alpha_error_estimate": sci(p.alpha.error),
+            "alpha_steps": p.alpha.steps,
+            "beta_steps": p.beta.steps,
             "beta_error_estimate": sci(p.beta.error),
             "beta_branch_points": p.beta_loop.branch_points,
             "beta_encloses_puncture": p.beta_loop.encloses_puncture,
