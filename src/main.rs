@@ -206,14 +206,18 @@ fn run_spectrum(args: &SpectrumArgs) -> Result<(Value, String), Failure> {
     Ok((doc, table))
 }
 
-fn spectrum_command(args: &SpectrumArgs) -> Result<(), Failure> {
-    let (doc, table) = run_spectrum(args)?;
-    if args.json {
+/// Prints the JSON document or the table.
+fn emit(json: bool, (doc, table): (Value, String)) -> Result<(), Failure> {
+    if json {
         println!("{}", serde_json::to_string_pretty(&doc).expect("JSON"));
     } else {
         print!("{table}");
     }
     Ok(())
+}
+
+fn spectrum_command(args: &SpectrumArgs) -> Result<(), Failure> {
+    emit(args.json, run_spectrum(args)?)
 }
 
 fn periods_command(args: &PeriodsArgs) -> Result<(), Failure> {
@@ -229,13 +233,8 @@ fn periods_command(args: &PeriodsArgs) -> Result<(), Failure> {
     let mut inputs = family_inputs(&args.family, &sel);
     inputs["modulus"] = json!(args.modulus);
     inputs["digits"] = json!(args.digits);
-    if args.json {
-        let doc = report::periods_json(sel.family.id, &cmp, args.digits, bits, inputs, elapsed);
-        println!("{}", serde_json::to_string_pretty(&doc).expect("JSON"));
-    } else {
-        print!("{}", report::periods_table(sel.family.id, args.modulus.trim(), &cmp, args.digits, bits, elapsed));
-    }
-    Ok(())
+    let doc = report::periods_json(sel.family.id, &cmp, args.digits, bits, inputs, elapsed);
+    emit(args.json, (doc, report::periods_table(sel.family.id, args.modulus.trim(), &cmp, args.digits, bits, elapsed)))
 }
 
 fn run_attractors(args: &AttractorsArgs) -> Result<(Value, String), Failure> {
@@ -254,13 +253,7 @@ fn run_attractors(args: &AttractorsArgs) -> Result<(Value, String), Failure> {
 }
 
 fn attractors_command(args: &AttractorsArgs) -> Result<(), Failure> {
-    let (doc, table) = run_attractors(args)?;
-    if args.json {
-        println!("{}", serde_json::to_string_pretty(&doc).expect("JSON"));
-    } else {
-        print!("{table}");
-    }
-    Ok(())
+    emit(args.json, run_attractors(args)?)
 }
 
 /// Writes `contents` to `path` atomically: a temporary file in the same directory, then rename.
