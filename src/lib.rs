@@ -16,6 +16,7 @@
 //! - [`periods`]: Ω and R over α and β, τ and the higher normal function ν.
 //! - [`spectrum`]: the independent harmonic-oscillator diagonalization.
 //! - [`cover`]: the double cover over the z-plane, branch points, root continuation.
+//! - [`eigenfn`]: χ on the cover, ψ = (χ − χ∘ι̃)/D at attractor moduli.
 //! - [`numeric`]: the small complex-number trait shared by the f64 and MPFR paths.
 //! - [`quad`]: Gauss–Legendre rules at any precision, cached.
 //! - [`precision`]: digits ↔ bits, guard bits and tolerances in one place.
@@ -25,6 +26,7 @@
 pub mod attractor;
 pub mod catalogue;
 pub mod cover;
+pub mod eigenfn;
 pub mod laurent;
 pub mod numeric;
 pub mod operator;
