@@ -198,6 +198,12 @@ impl<T: CNum> Eigenfunction<T> {
         if self.distance_to_singular(z) >= NEAR_SINGULAR {
             return self.psi_direct(z);
         }
+        // The punctures at 2πik, k ≠ 0, are poles of ψ: no mean value around them (the route
+        // to a point near them is regular; a point on them is refused by the continuation).
+        let pole = self.distance_to_pole(z);
+        if pole < 4.0 * NEAR_SINGULAR {
+            return self.psi_direct(z);
+        }
         let prec = z.prec();
         let rho = 2.0 * NEAR_SINGULAR;
         let m = (self.march.digits / 1.2).ceil().max(16.0) as usize;
@@ -208,6 +214,22 @@ impl<T: CNum> Eigenfunction<T> {
             acc = acc + self.psi_direct(&w)?;
         }
         Ok(acc / z.int_like(m as i64))
+    }
+
+    /// Distance from z to the nearest pole of ψ (the punctures 2πik, k ≠ 0, when A or C vanishes
+    /// at x = −1); infinite when there are none.
+    pub fn distance_to_pole(&self, z: &T) -> f64 {
+        if !self.singular.iter().any(|s| s.kind == SingularKind::Puncture) {
+            return f64::INFINITY;
+        }
+        let two_pi = 2.0 * std::f64::consts::PI;
+        let (re, im) = (z.re_f64(), z.im_f64());
+        let k = (im / two_pi).round();
+        [k - 1.0, k, k + 1.0]
+            .iter()
+            .filter(|&&j| j != 0.0)
+            .map(|&j| (re * re + (im - j * two_pi).powi(2)).sqrt())
+            .fold(f64::INFINITY, f64::min)
     }
 
     /// Distance from z to the nearest singular point of the cover (all 2πi translates).
@@ -239,4 +261,147 @@ fn default_spine<T: CNum>(singular: &[Singular<T>]) -> f64 {
         }
     }
     best.0
+}
+
+/// A regular grid `R0:R1:N` of real parts (N ≥ 2 points, R0 < R1).
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Grid {
+    pub start: f64,
+    pub end: f64,
+    pub points: usize,
+}
+
+impl Grid {
+    /// Parses `R0:R1:N`.
+    ///
+    /// # Errors
+    /// A message saying what is wrong (empty, reversed, too few points, malformed).
+    pub fn parse(text: &str) -> Result<Grid, String> {
+        let parts: Vec<&str> = text.trim().split(':').collect();
+        if parts.len() != 3 {
+            return Err(format!("cannot read the grid {text:?}: use R0:R1:N, e.g. -12:12:481"));
+        }
+        let num = |s: &str| s.trim().parse::<f64>().map_err(|_| format!("cannot read the grid {text:?}: {s:?} is not a number"));
+        let (start, end) = (num(parts[0])?, num(parts[1])?);
+        let points = parts[2].trim().parse::<usize>().map_err(|_| format!("cannot read the grid {text:?}: {:?} is not a point count", parts[2]))?;
+        if !start.is_finite() || !end.is_finite() {
+            return Err(format!("the grid {text:?} has a non-finite end"));
+        }
+        if start >= end {
+            return Err(format!("the grid {text:?} is empty or reversed: R0 must be below R1"));
+        }
+        if !(2..=1_000_000).contains(&points) {
+            return Err(format!("the grid {text:?} needs between 2 and 1000000 points"));
+        }
+        Ok(Grid { start, end, points })
+    }
+
+    /// The grid values.
+    pub fn values(&self) -> Vec<f64> {
+        let h = (self.end - self.start) / (self.points - 1) as f64;
+        (0..self.points).map(|k| self.start + k as f64 * h).collect()
+    }
+}
+
+/// Where ψ has poles in the closed strip |Im z| ≤ 2π: at ±2πi when A or C vanishes at x = −1
+/// (a horizontal top or bottom edge), MATH.md §2.
+pub fn strip_poles<T: CNum>(curve: &Curve<T>) -> Vec<[f64; 2]> {
+    match curve.puncture_orders() {
+        Ok((la, lc)) if la + lc > 0 => vec![[0.0, 2.0 * std::f64::consts::PI], [0.0, -2.0 * std::f64::consts::PI]],
+        _ => Vec::new(),
+    }
+}
+
+/// Normalization of ψ on R: unit L² norm and the phase rule "ψ real and positive at the point of
+/// largest |ψ|".
+#[derive(Debug, Clone)]
+pub struct Normalization {
+    /// Multiply the raw ψ by this factor.
+    pub factor: Complex64,
+    /// ∫|ψ_raw|² over R (trapezoid on the quadrature range plus the tail estimate).
+    pub raw_norm_squared: f64,
+    /// Quadrature range [−L, L] and step.
+    pub range: f64,
+    pub step: f64,
+    /// Estimated relative contribution of the tails beyond ±L.
+    pub tail: f64,
+    /// Fitted decay rates κ of |ψ| ~ e^{−κ|r|} at the left and right ends.
+    pub decay: [f64; 2],
+    /// Where |ψ| is largest on the quadrature grid.
+    pub peak: f64,
+}
+
+use num_complex::Complex64;
+
+impl<T: CNum> Eigenfunction<T> {
+    /// Unit L² normalization on R with the documented phase rule: trapezoid with step h on
+    /// [−L, L], L grown until |ψ| has fallen below 1e-16 of its maximum at both ends (or 60),
+    /// plus the tail ∫_L^∞ |ψ|² ≈ |ψ(L)|²/(2κ) with κ the fitted decay rate.
+    ///
+    /// # Errors
+    /// See [`Eigenfunction::psi`].
+    pub fn normalization(&self, step: f64) -> Result<Normalization, EigenError> {
+        let prec = self.lambda.prec();
+        let at = |r: f64| -> Result<Complex64, EigenError> { Ok(self.psi(&T::from_f64s(r, 0.0, prec))?.to_c64()) };
+        let mut peak_value: f64 = 0.0;
+        let mut l = 4.0;
+        loop {
+            let ends = (at(-l)?.norm(), at(l)?.norm());
+            let probe = (-8..=8).map(|k| at(k as f64 * l / 16.0).map(|v| v.norm())).collect::<Result<Vec<_>, _>>()?;
+            peak_value = probe.iter().copied().fold(peak_value, f64::max);
+            if (ends.0.max(ends.1) < 1e-16 * peak_value) || l >= 60.0 {
+                break;
+            }
+            l += 4.0;
+        }
+        let n = (2.0 * l / step).round() as usize;
+        let h = 2.0 * l / n as f64;
+        let mut sum = 0.0;
+        let mut peak = (0.0, 0.0f64, Complex64::new(0.0, 0.0));
+        let mut values = Vec::with_capacity(n + 1);
+        for k in 0..=n {
+            let r = -l + k as f64 * h;
+            let v = at(r)?;
+            let w = if k == 0 || k == n { 0.5 } else { 1.0 };
+            sum += w * v.norm_sqr() * h;
+            if v.norm() > peak.1 {
+                peak = (r, v.norm(), v);
+            }
+            values.push(v.norm());
+        }
+        // Decay rates from the envelope (ψ oscillates while it decays): the maxima of |ψ| over
+        // windows of width 2 centred where the envelope is between 1e-10 and 1e-5 of the peak.
+        let window = (2.0 / h).round() as usize;
+        let envelope = |i: usize| values[i.saturating_sub(window / 2)..(i + window / 2).min(n) + 1].iter().copied().fold(0.0, f64::max);
+        let fit = |indices: Vec<usize>| -> f64 {
+            let pts: Vec<(f64, f64)> = indices
+                .into_iter()
+                .map(|i| ((-l + i as f64 * h).abs(), envelope(i)))
+                .filter(|(_, v)| *v > 1e-10 * peak_value && *v < 1e-4 * peak_value)
+                .map(|(r, v)| (r, v.ln()))
+                .collect();
+            if pts.len() < 3 {
+                return f64::NAN;
+            }
+            let m = pts.len() as f64;
+            let (sx, sy) = pts.iter().fold((0.0, 0.0), |acc, p| (acc.0 + p.0, acc.1 + p.1));
+            let (mx, my) = (sx / m, sy / m);
+            let (num, den) = pts.iter().fold((0.0, 0.0), |acc, p| (acc.0 + (p.0 - mx) * (p.1 - my), acc.1 + (p.0 - mx).powi(2)));
+            -num / den
+        };
+        let decay = [fit((0..n / 2).step_by(window.max(1)).collect()), fit((n / 2..=n).step_by(window.max(1)).collect())];
+        let tail_of = |v: f64, k: f64| if k.is_finite() && k > 0.0 { v * v / (2.0 * k) } else { 0.0 };
+        let tail = tail_of(values[0], decay[0]) + tail_of(values[n], decay[1]);
+        let total = sum + tail;
+        let phase = peak.2 / peak.2.norm();
+        Ok(Normalization {
+            factor: 1.0 / (phase * total.sqrt()),
+            raw_norm_squared: total,
+            range: l,
+            step: h,
+            tail: tail / total,
+            decay,
+            peak: peak.0,
+        })
+    }
 }

@@ -4,6 +4,9 @@ use clap::{Args, Parser, Subcommand};
 use regwave::precision::{bits_for_digits, check_digits, with_guard, PrecisionError};
 use regwave::selection::{self, Selection, SelectionError};
 use regwave::spectrum::{self, SpectrumError, SpectrumOptions};
+use num_complex::Complex64;
+use regwave::eigenfn::{self, Eigenfunction};
+use regwave::numeric::CNum;
 use regwave::{attractor, catalogue, periods, report, TOOL_VERSION};
 use serde_json::{json, Value};
 use std::path::{Path, PathBuf};
@@ -31,6 +34,8 @@ enum Command {
     Periods(PeriodsArgs),
     /// Attractor moduli: the moduli where the higher normal function nu is an integer.
     Attractors(AttractorsArgs),
+    /// Build the eigenfunction psi at an attractor modulus and write psi.csv (+ strip lines) and psi.json.
+    Build(BuildArgs),
     /// The built-in demonstration, written into out/tour/.
     Tour {
         /// Output directory.
@@ -103,6 +108,36 @@ struct AttractorsArgs {
     json: bool,
 }
 
+#[derive(Args, Clone)]
+struct BuildArgs {
+    #[command(flatten)]
+    family: FamilyArgs,
+    /// Level n (the attractor modulus with nu = n + 1).
+    #[arg(long, conflicts_with = "modulus")]
+    level: Option<usize>,
+    /// An explicit modulus a (must be an attractor modulus unless --allow-non-attractor).
+    #[arg(long, allow_hyphen_values = true)]
+    modulus: Option<String>,
+    /// Grid of real parts R0:R1:N.
+    #[arg(long, default_value = "-12:12:481", allow_hyphen_values = true)]
+    grid: String,
+    /// Also write the lines Im r = +2 pi and -2 pi (psi_up.csv, psi_down.csv).
+    #[arg(long)]
+    strip: bool,
+    /// Decimal digits of the working precision (16 or less: double precision).
+    #[arg(long, default_value_t = 16)]
+    digits: u32,
+    /// Output directory.
+    #[arg(long, default_value = "out/build")]
+    out: PathBuf,
+    /// Replace existing outputs.
+    #[arg(long)]
+    force: bool,
+    /// Build even if the modulus is not an attractor modulus (the result is then not an eigenfunction).
+    #[arg(long)]
+    allow_non_attractor: bool,
+}
+
 /// A failure with its exit code: 2 for bad input, 1 for a computation that failed.
 struct Failure {
     code: u8,
@@ -146,6 +181,7 @@ fn main() -> ExitCode {
         Command::Spectrum(args) => spectrum_command(&args),
         Command::Periods(args) => periods_command(&args),
         Command::Attractors(args) => attractors_command(&args),
+        Command::Build(args) => build_command(&args),
         Command::Tour { out } => tour(&out),
     };
     match result {
@@ -254,6 +290,201 @@ fn run_attractors(args: &AttractorsArgs) -> Result<(Value, String), Failure> {
 
 fn attractors_command(args: &AttractorsArgs) -> Result<(), Failure> {
     emit(args.json, run_attractors(args)?)
+}
+
+/// The sampled, normalized eigenfunction.
+struct Samples {
+    grid: Vec<f64>,
+    main: Vec<Complex64>,
+    up: Vec<Option<Complex64>>,
+    down: Vec<Option<Complex64>>,
+    norm: eigenfn::Normalization,
+    lambda: Complex64,
+    spine: f64,
+    base: Complex64,
+    residual: Option<f64>,
+    poles: Vec<[f64; 2]>,
+}
+
+fn sample<T: CNum>(laurent: &regwave::laurent::Laurent, a: T, digits: f64, grid: &[f64], strip: bool) -> Result<Samples, Failure> {
+    let prec = a.prec();
+    let a_c = a.to_c64();
+    let eig = Eigenfunction::new(laurent, a, digits, None, 0.3).map_err(Failure::compute)?;
+    let norm = eig.normalization(0.05).map_err(Failure::compute)?;
+    let poles = eigenfn::strip_poles(eig.curve());
+    let eval = |re: f64, im: f64| -> Result<Complex64, Failure> {
+        Ok(eig.psi(&T::from_f64s(re, im, prec)).map_err(Failure::compute)?.to_c64() * norm.factor)
+    };
+    let main = grid.iter().map(|&r| eval(r, 0.0)).collect::<Result<Vec<_>, _>>()?;
+    let two_pi = 2.0 * std::f64::consts::PI;
+    let line = |im: f64| -> Result<Vec<Option<Complex64>>, Failure> {
+        grid.iter()
+            .map(|&r| {
+                // A pole is located and reported, never sampled.
+                if poles.iter().any(|p| (p[0] - r).abs() < 1e-12 && (p[1] - im).abs() < 1e-9) {
+                    Ok(None)
+                } else {
+                    eval(r, im).map(Some)
+                }
+            })
+            .collect()
+    };
+    let (up, down) = if strip { (line(two_pi)?, line(-two_pi)?) } else { (Vec::new(), Vec::new()) };
+    // Eigen-equation residual on the grid from the independently integrated lines.
+    let residual = if strip {
+        let q = regwave::operator::QuantumCurve::new(laurent).map_err(Failure::input)?;
+        let scale = main.iter().map(|v| v.norm()).fold(0.0, f64::max);
+        let mut worst: f64 = 0.0;
+        for (k, &r) in grid.iter().enumerate() {
+            if let (Some(d), Some(u)) = (down[k], up[k]) {
+                let c = q.coefficients(&Complex64::new(r, 0.0));
+                let res = c.down * d + (c.centre - a_c) * main[k] + c.up * u;
+                worst = worst.max(res.norm() / scale);
+            }
+        }
+        Some(worst)
+    } else {
+        None
+    };
+    Ok(Samples {
+        grid: grid.to_vec(),
+        main,
+        up,
+        down,
+        norm,
+        lambda: eig.lambda.to_c64(),
+        spine: eig.spine,
+        base: eig.base.z.to_c64(),
+        residual,
+        poles,
+    })
+}
+
+fn csv(grid: &[f64], values: &[Option<Complex64>]) -> String {
+    let mut out = String::from("r,re_psi,im_psi\n");
+    for (r, v) in grid.iter().zip(values) {
+        match v {
+            Some(v) => out.push_str(&format!("{r:.12},{:.17e},{:.17e}\n", v.re, v.im)),
+            None => out.push_str(&format!("{r:.12},nan,nan\n")),
+        }
+    }
+    out
+}
+
+fn build_command(args: &BuildArgs) -> Result<(), Failure> {
+    let start = Instant::now();
+    check_digits(args.digits)?;
+    let sel = select(&args.family)?;
+    let grid = eigenfn::Grid::parse(&args.grid).map_err(Failure::input)?;
+    let bits = with_guard(bits_for_digits(args.digits.max(20) as f64));
+    let mut fam = attractor::Family::new(&sel.laurent).map_err(Failure::compute)?;
+    let (a, level, nu, distance) = match (args.level, &args.modulus) {
+        (Some(n), _) => {
+            let at = attractor::solve_levels(&sel.laurent, n..=n, args.digits.max(20)).map_err(Failure::compute)?;
+            (at[0].modulus.clone(), Some(n), at[0].nu as f64, 0.0)
+        }
+        (None, Some(text)) => {
+            let a = selection::parse_modulus(text, bits, &sel.laurent)?;
+            let (nu, _, _, _) = fam.nu(&a, bits).map_err(Failure::compute)?;
+            let nu = nu.to_f64();
+            let distance = (nu - nu.round()).abs();
+            if distance > 1e-6 && !args.allow_non_attractor {
+                return Err(Failure::input(format!(
+                    "the modulus {} is not an attractor modulus: nu = {nu:.12}, {distance:.3e} from the nearest integer {}; \
+                     give --level n, or --allow-non-attractor to build anyway (the result is then not an eigenfunction)",
+                    text.trim(),
+                    nu.round()
+                )));
+            }
+            let level = if distance <= 1e-6 && nu.round() >= 1.0 { Some(nu.round() as usize - 1) } else { None };
+            (a, level, nu, distance)
+        }
+        (None, None) => return Err(Failure::input("give --level n or --modulus A")),
+    };
+    // Refuse to overwrite unless --force, before computing anything expensive.
+    let files: Vec<&str> = if args.strip { vec!["psi.csv", "psi_up.csv", "psi_down.csv", "psi.json"] } else { vec!["psi.csv", "psi.json"] };
+    if !args.force {
+        if let Some(f) = files.iter().find(|f| args.out.join(f).exists()) {
+            return Err(Failure::input(format!("{} exists; use --force to replace it", args.out.join(f).display())));
+        }
+    }
+    let grid_values = grid.values();
+    let digits = args.digits as f64;
+    let s = if args.digits <= 16 {
+        sample(&sel.laurent, Complex64::new(a.to_f64(), 0.0), 15.0, &grid_values, args.strip)?
+    } else {
+        sample(&sel.laurent, rug::Complex::with_val(bits, (&a, 0)), digits, &grid_values, args.strip)?
+    };
+    let elapsed = start.elapsed().as_secs_f64();
+    let mut inputs = family_inputs(&args.family, &sel);
+    inputs["level"] = json!(args.level);
+    inputs["modulus"] = json!(args.modulus);
+    inputs["grid"] = json!(args.grid);
+    inputs["strip"] = json!(args.strip);
+    inputs["digits"] = json!(args.digits);
+    let doc = json!({
+        "family": sel.family.id,
+        "level": level,
+        "modulus": report::decimal(&a, args.digits.max(20)),
+        "nu": nu,
+        "nu_distance_to_integer": distance,
+        "lambda": {"re": s.lambda.re, "im": s.lambda.im},
+        "base_point": {"re": s.base.re, "im": s.base.im},
+        "spine_im": s.spine,
+        "precision_bits": if args.digits <= 16 { 53 } else { bits },
+        "normalization": {
+            "rule": "unit L2 norm on R; psi real and positive where |psi| is largest",
+            "raw_norm_squared": s.norm.raw_norm_squared,
+            "quadrature_range": s.norm.range,
+            "quadrature_step": s.norm.step,
+            "tail_fraction": s.norm.tail,
+            "peak_r": s.norm.peak,
+        },
+        "checks": {
+            "eigen_equation_residual_max": s.residual,
+            "residual_note": "A psi(r-2pi i) + C psi(r+2pi i) - (B+a) psi(r), each value integrated along its own route, max over the grid relative to max|psi| (needs --strip)",
+            "decay_rate_left": s.norm.decay[0],
+            "decay_rate_right": s.norm.decay[1],
+        },
+        "poles": s.poles,
+        "files": files,
+        "tool_version": TOOL_VERSION,
+        "inputs": inputs,
+        "elapsed_s": elapsed,
+        "note": "numerical evidence, not proofs",
+    });
+    let main: Vec<Option<Complex64>> = s.main.iter().map(|v| Some(*v)).collect();
+    let mut outputs = vec![("psi.csv", csv(&s.grid, &main))];
+    if args.strip {
+        outputs.push(("psi_up.csv", csv(&s.grid, &s.up)));
+        outputs.push(("psi_down.csv", csv(&s.grid, &s.down)));
+    }
+    outputs.push(("psi.json", serde_json::to_string_pretty(&doc).expect("JSON")));
+    write_all_atomic(&args.out, &outputs)?;
+    eprintln!("regwave build: wrote {} ({:.2} s)", args.out.display(), elapsed);
+    Ok(())
+}
+
+/// Writes several files into `dir`: every file goes to a temporary name first and is renamed
+/// only when all were written, so a failure leaves nothing half-written.
+fn write_all_atomic(dir: &Path, files: &[(&str, String)]) -> Result<(), Failure> {
+    std::fs::create_dir_all(dir).map_err(|e| Failure::input(format!("cannot create directory {}: {e}", dir.display())))?;
+    let mut temps = Vec::new();
+    for (name, contents) in files {
+        let tmp = dir.join(format!(".{name}.{}.tmp", std::process::id()));
+        if let Err(e) = std::fs::write(&tmp, contents) {
+            for t in &temps {
+                let _ = std::fs::remove_file(t);
+            }
+            let _ = std::fs::remove_file(&tmp);
+            return Err(Failure::input(format!("cannot write {}: {e}", dir.join(name).display())));
+        }
+        temps.push(tmp);
+    }
+    for ((name, _), tmp) in files.iter().zip(&temps) {
+        std::fs::rename(tmp, dir.join(name)).map_err(|e| Failure::input(format!("cannot write {}: {e}", dir.join(name).display())))?;
+    }
+    Ok(())
 }
 
 /// Writes `contents` to `path` atomically: a temporary file in the same directory, then rename.
