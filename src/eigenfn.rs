@@ -216,6 +216,73 @@ impl<T: CNum> Eigenfunction<T> {
         Ok(acc / z.int_like(m as i64))
     }
 
+    /// ψ on the line Im z = `im` at the real parts `grid`, with the cost per point independent of
+    /// its distance from the base point: the spine (Im z = c for the lines Im 0 and +2π, and its
+    /// translate Im z = c − 2π for −2π, reached from the base point by a vertical path) is marched
+    /// once in each direction from the base point, and each target is reached by one vertical
+    /// step from the spine, on both sheets. Points within [`NEAR_SINGULAR`] of a singular point
+    /// are evaluated by [`Eigenfunction::psi`]; points on a pole of ψ give `None`.
+    ///
+    /// # Errors
+    /// See [`crate::cover::continue_along`].
+    pub fn psi_on_line(&self, grid: &[f64], im: f64) -> Result<Vec<Option<T>>, EigenError> {
+        let prec = self.lambda.prec();
+        let two_pi = 2.0 * std::f64::consts::PI;
+        let spine = if im < -1e-9 { self.spine - two_pi } else { self.spine };
+        let like = &self.lambda;
+        let two_pi_i = like.int_like(2) * like.pi_like() * like.i_like();
+        let exponent = |ints: &crate::cover::PathIntegrals<T>| ints.eta.clone() - self.lambda.clone() * ints.omega.clone();
+        // Spine start: the base point, or its vertical translate onto the lower spine.
+        let (mut s1, mut e1) = (self.base.clone(), like.int_like(0));
+        let (mut s2, mut e2) = (self.base_other.0.clone(), self.base_other.1.clone());
+        if (spine - self.spine).abs() > 1e-12 {
+            let start = T::from_f64s(self.base.z.re_f64(), spine, prec);
+            let path = [self.base.z.clone(), start];
+            let (p1, i1) = continue_along(&self.curve, &self.singular, &s1, &path, &self.march)?;
+            let (p2, i2) = continue_along(&self.curve, &self.singular, &s2, &path, &self.march)?;
+            e1 = e1 + exponent(&i1);
+            e2 = e2 + exponent(&i2);
+            s1 = p1;
+            s2 = p2;
+        }
+        let base_re = self.base.z.re_f64();
+        let mut out: Vec<Option<T>> = vec![None; grid.len()];
+        let mut order: Vec<usize> = (0..grid.len()).collect();
+        order.sort_by(|&i, &j| grid[i].total_cmp(&grid[j]));
+        let right: Vec<usize> = order.iter().copied().filter(|&i| grid[i] >= base_re).collect();
+        let left: Vec<usize> = order.iter().rev().copied().filter(|&i| grid[i] < base_re).collect();
+        for side in [right, left] {
+            let (mut a1, mut f1, mut a2, mut f2) = (s1.clone(), e1.clone(), s2.clone(), e2.clone());
+            for i in side {
+                let r = grid[i];
+                let z = T::from_f64s(r, im, prec);
+                if self.distance_to_pole(&z) < 1e-12 {
+                    continue;
+                }
+                let on_spine = T::from_f64s(r, spine, prec);
+                let along = [a1.z.clone(), on_spine.clone()];
+                let (p1, i1) = continue_along(&self.curve, &self.singular, &a1, &along, &self.march)?;
+                let (p2, i2) = continue_along(&self.curve, &self.singular, &a2, &along, &self.march)?;
+                f1 = f1 + exponent(&i1);
+                f2 = f2 + exponent(&i2);
+                a1 = p1;
+                a2 = p2;
+                if self.distance_to_singular(&z) < NEAR_SINGULAR {
+                    out[i] = Some(self.psi(&z)?);
+                    continue;
+                }
+                let down = [on_spine, z.clone()];
+                let (q1, j1) = continue_along(&self.curve, &self.singular, &a1, &down, &self.march)?;
+                let (_, j2) = continue_along(&self.curve, &self.singular, &a2, &down, &self.march)?;
+                let chi = (-((f1.clone() + exponent(&j1)) / two_pi_i.clone())).exp();
+                let chi_other = (-((f2.clone() + exponent(&j2)) / two_pi_i.clone())).exp();
+                let d = self.curve.d(&q1.z, &q1.y);
+                out[i] = Some((chi - chi_other) / d);
+            }
+        }
+        Ok(out)
+    }
+
     /// Distance from z to the nearest pole of ψ (the punctures 2πik, k ≠ 0, when A or C vanishes
     /// at x = −1); infinite when there are none.
     pub fn distance_to_pole(&self, z: &T) -> f64 {
@@ -359,9 +426,11 @@ impl<T: CNum> Eigenfunction<T> {
         let mut sum = 0.0;
         let mut peak = (0.0, 0.0f64, Complex64::new(0.0, 0.0));
         let mut values = Vec::with_capacity(n + 1);
-        for k in 0..=n {
-            let r = -l + k as f64 * h;
-            let v = at(r)?;
+        let grid: Vec<f64> = (0..=n).map(|k| -l + k as f64 * h).collect();
+        let line = self.psi_on_line(&grid, 0.0)?;
+        for (k, v) in line.into_iter().enumerate() {
+            let r = grid[k];
+            let v = v.map(|v| v.to_c64()).unwrap_or(Complex64::new(0.0, 0.0));
             let w = if k == 0 || k == n { 0.5 } else { 1.0 };
             sum += w * v.norm_sqr() * h;
             if v.norm() > peak.1 {

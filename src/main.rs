@@ -312,23 +312,13 @@ fn sample<T: CNum>(laurent: &regwave::laurent::Laurent, a: T, digits: f64, grid:
     let eig = Eigenfunction::new(laurent, a, digits, None, 0.3).map_err(Failure::compute)?;
     let norm = eig.normalization(0.05).map_err(Failure::compute)?;
     let poles = eigenfn::strip_poles(eig.curve());
-    let eval = |re: f64, im: f64| -> Result<Complex64, Failure> {
-        Ok(eig.psi(&T::from_f64s(re, im, prec)).map_err(Failure::compute)?.to_c64() * norm.factor)
-    };
-    let main = grid.iter().map(|&r| eval(r, 0.0)).collect::<Result<Vec<_>, _>>()?;
-    let two_pi = 2.0 * std::f64::consts::PI;
+    let _ = prec;
+    // A pole is located and reported, never sampled (None).
     let line = |im: f64| -> Result<Vec<Option<Complex64>>, Failure> {
-        grid.iter()
-            .map(|&r| {
-                // A pole is located and reported, never sampled.
-                if poles.iter().any(|p| (p[0] - r).abs() < 1e-12 && (p[1] - im).abs() < 1e-9) {
-                    Ok(None)
-                } else {
-                    eval(r, im).map(Some)
-                }
-            })
-            .collect()
+        Ok(eig.psi_on_line(grid, im).map_err(Failure::compute)?.into_iter().map(|v| v.map(|v| v.to_c64() * norm.factor)).collect())
     };
+    let main: Vec<Complex64> = line(0.0)?.into_iter().map(|v| v.unwrap_or(Complex64::new(f64::NAN, f64::NAN))).collect();
+    let two_pi = 2.0 * std::f64::consts::PI;
     let (up, down) = if strip { (line(two_pi)?, line(-two_pi)?) } else { (Vec::new(), Vec::new()) };
     // Eigen-equation residual on the grid from the independently integrated lines.
     let residual = if strip {
