@@ -176,6 +176,32 @@ impl<T: CNum> Eigenfunction<T> {
         Ok(SheetValues { chi, chi_other, d })
     }
 
+    /// ψ at every vertex of a route starting at the base point (both sheets continued along it):
+    /// e.g. around a circle, where ψ stays single valued at an attractor modulus while the sheets
+    /// swap.
+    ///
+    /// # Errors
+    /// See [`crate::cover::continue_along`].
+    pub fn psi_along(&self, path: &[T]) -> Result<Vec<T>, EigenError> {
+        let like = &self.lambda;
+        let two_pi_i = like.int_like(2) * like.pi_like() * like.i_like();
+        let (mut a1, mut a2) = (self.base.clone(), self.base_other.0.clone());
+        let (mut e1, mut e2) = (like.int_like(0), self.base_other.1.clone());
+        let mut out = Vec::with_capacity(path.len());
+        for w in path.windows(2) {
+            let (p1, i1) = continue_along(&self.curve, &self.singular, &a1, w, &self.march)?;
+            let (p2, i2) = continue_along(&self.curve, &self.singular, &a2, w, &self.march)?;
+            e1 = e1 + i1.eta - self.lambda.clone() * i1.omega;
+            e2 = e2 + i2.eta - self.lambda.clone() * i2.omega;
+            let chi = (-(e1.clone() / two_pi_i.clone())).exp();
+            let chi_other = (-(e2.clone() / two_pi_i.clone())).exp();
+            out.push((chi - chi_other) / self.curve.d(&p1.z, &p1.y));
+            a1 = p1;
+            a2 = p2;
+        }
+        Ok(out)
+    }
+
     /// ψ(z) = (χ(z̃) − χ(ι̃z̃))/D(z̃) (unnormalized), directly (no special handling).
     ///
     /// # Errors

@@ -112,3 +112,88 @@ fn single_valued_at_the_attractor_and_not_off_it() {
         assert!(off > 1e-8, "{id}: route dependence only {off:e} off the attractor");
     }
 }
+
+#[test]
+fn cauchy_integrals_around_branch_points_vanish_only_at_the_attractor() {
+    // Analyticity: ∮ ψ dz around a branch point in the strip is 0 at the attractor modulus
+    // (trapezoid on a circle, exponentially accurate for analytic ψ), with ψ continued around
+    // the circle on the cover (the sheets swap, ψ must not), and not 0 at a modulus perturbed
+    // by 1e-6 (negative control).
+    use regwave::cover::SingularKind;
+    for id in ["F0", "P2", "dP3"] {
+        let l = family(id);
+        let a = attractor_moduli(id, 0..=0)[0];
+        let cauchy = |a: f64| -> f64 {
+            let eig = Eigenfunction::new(&l, Complex64::new(a, 0.0), 15.0, None, 0.3).unwrap();
+            let sing = eig.curve().singular_points().unwrap();
+            let b = sing.iter().find(|s| s.kind == SingularKind::Branch && s.z.im.abs() < 2.0 * std::f64::consts::PI - 0.5).unwrap().z;
+            let gap = sing.iter().filter(|s| (s.z - b).norm() > 1e-9).map(|s| (s.z - b).norm()).fold(1.0, f64::min);
+            let rho = 0.4 * gap;
+            let m = 64;
+            // Route: along the spine above b + ρ, down to it, then once around the circle.
+            let mut path = vec![eig.base.z, Complex64::new(b.re + rho, eig.spine)];
+            path.extend((0..=m).map(|k| b + Complex64::from_polar(rho, 2.0 * std::f64::consts::PI * k as f64 / m as f64)));
+            let values = eig.psi_along(&path).unwrap();
+            let on_circle = &values[1..values.len() - 1]; // vertices k = 0..m−1
+            let mut integral = Complex64::new(0.0, 0.0);
+            for (k, v) in on_circle.iter().enumerate() {
+                let t = 2.0 * std::f64::consts::PI * k as f64 / m as f64;
+                integral += v * Complex64::new(0.0, rho) * Complex64::from_polar(1.0, t) * (2.0 * std::f64::consts::PI / m as f64);
+            }
+            let size = on_circle.iter().map(|v| v.norm()).fold(0.0, f64::max);
+            // Single valued around the circle, too.
+            let closure = (values[values.len() - 1] - values[1]).norm() / size;
+            (integral.norm() / (size * rho)).max(closure)
+        };
+        let at = cauchy(a);
+        let off = cauchy(a * (1.0 + 1e-6));
+        assert!(at < 1e-10, "{id}: Cauchy defect {at:e} at the attractor");
+        assert!(off > 1e-8, "{id}: Cauchy defect only {off:e} off the attractor");
+    }
+}
+
+#[test]
+fn precision_ladder() {
+    // ψ(0.3) for F0 level 2 at 32, 64 and 128 digits (normalized by ψ(−0.9) to remove the base
+    // constant) agree with one another to the lower precision of each pair.
+    use regwave::precision::{bits_for_digits, with_guard};
+    use rug::Complex;
+    let l = family("F0");
+    let a = attractor::solve_levels(&l, 2..=2, 128).unwrap()[0].modulus.clone();
+    let ratio = |digits: u32| -> Complex {
+        let bits = with_guard(bits_for_digits(digits as f64));
+        let eig = Eigenfunction::new(&l, Complex::with_val(bits, (&a, 0)), digits as f64, None, 0.3).unwrap();
+        let p = eig.psi(&Complex::with_val(bits, 0.3)).unwrap();
+        let q = eig.psi(&Complex::with_val(bits, -0.9)).unwrap();
+        Complex::with_val(bits, p / q)
+    };
+    let (r32, r64, r128) = (ratio(32), ratio(64), ratio(128));
+    let rel = |x: &Complex, y: &Complex| Complex::with_val(400, x - y).abs().real().to_f64() / Complex::with_val(400, y.abs_ref()).real().to_f64();
+    assert!(rel(&r32, &r64) < 1e-29, "32 vs 64: {:e}", rel(&r32, &r64));
+    assert!(rel(&r64, &r128) < 1e-61, "64 vs 128: {:e}", rel(&r64, &r128));
+    assert!(rel(&r32, &r128) < 1e-29);
+}
+
+#[test]
+fn level_n_has_n_zeros_between_the_outermost_turning_points() {
+    // F0 (ψ real up to a constant): sign changes of the phase-fixed ψ on R between the outermost
+    // real parts of the branch points equal the level, levels 0..5 (fact of the trade for these
+    // operators; common practice, no source).
+    use regwave::cover::SingularKind;
+    let l = family("F0");
+    let moduli = attractor_moduli("F0", 0..=5);
+    for (n, &a) in moduli.iter().enumerate() {
+        let eig = Eigenfunction::new(&l, Complex64::new(a, 0.0), 15.0, None, 0.3).unwrap();
+        let sing = eig.curve().singular_points().unwrap();
+        let outer = sing.iter().filter(|s| s.kind == SingularKind::Branch).map(|s| s.z.re.abs()).fold(0.0, f64::max);
+        let grid: Vec<f64> = (0..=2000).map(|k| -outer + 2.0 * outer * k as f64 / 2000.0).collect();
+        let values: Vec<Complex64> = eig.psi_on_line(&grid, 0.0).unwrap().into_iter().map(|v| v.unwrap()).collect();
+        let peak = values.iter().copied().max_by(|x, y| x.norm().total_cmp(&y.norm())).unwrap();
+        let phase = peak / peak.norm();
+        let real: Vec<f64> = values.iter().map(|v| (v / phase).re).collect();
+        let imag_max = values.iter().map(|v| (v / phase).im.abs()).fold(0.0, f64::max);
+        assert!(imag_max < 1e-8 * peak.norm(), "F0 ψ is real up to a constant: {imag_max:e}");
+        let zeros = real.windows(2).filter(|w| w[0].signum() != w[1].signum()).count();
+        assert_eq!(zeros, n, "level {n}: {zeros} sign changes in [−{outer:.3}, {outer:.3}]");
+    }
+}
