@@ -66,6 +66,48 @@ fn main() {
         println!("  {id:<5} a = 200: {:.3} s (series/path agreement {:.1} digits)", t.elapsed().as_secs_f64(), c.agreement_digits.unwrap_or(0.0));
     }
 
+    println!("target: F0 level 0, psi at 2,000 points of R in double precision with the residual check, under 0.5 s");
+    {
+        use num_complex::Complex64;
+        use regwave::eigenfn::Eigenfunction;
+        let laurent = Laurent::tempered(&catalogue::by_id("F0").expect("id").polygon());
+        let a = attractor::solve_levels(&laurent, 0..=0, 20).expect("attractor")[0].modulus.to_f64();
+        let t = Instant::now();
+        let eig = Eigenfunction::new(&laurent, Complex64::new(a, 0.0), 15.0, None, 0.3).expect("eigenfunction");
+        let grid: Vec<f64> = (0..2000).map(|k| -10.0 + 20.0 * k as f64 / 1999.0).collect();
+        let two_pi = 2.0 * std::f64::consts::PI;
+        let main = eig.psi_on_line(&grid, 0.0).expect("line");
+        let up = eig.psi_on_line(&grid, two_pi).expect("line");
+        let down = eig.psi_on_line(&grid, -two_pi).expect("line");
+        let q = regwave::operator::QuantumCurve::new(&laurent).expect("operator");
+        let scale = main.iter().flatten().map(|v| v.norm()).fold(0.0, f64::max);
+        let mut worst: f64 = 0.0;
+        for k in 0..grid.len() {
+            if let (Some(m), Some(u), Some(d)) = (main[k], up[k], down[k]) {
+                let c = q.coefficients(&Complex64::new(grid[k], 0.0));
+                worst = worst.max((c.down * d + (c.centre - a) * m + c.up * u).norm() / scale);
+            }
+        }
+        println!("  {:.3} s for 3 x 2,000 values, residual max {worst:.1e}", t.elapsed().as_secs_f64());
+        println!("target: time per point independent of the distance from the base point (ratio within 1.5)");
+        let near: Vec<f64> = (0..200).map(|k| -2.0 + 4.0 * k as f64 / 199.0).collect();
+        let far: Vec<f64> = (0..200).map(|k| -20.0 + 4.0 * k as f64 / 199.0).collect();
+        let t = Instant::now();
+        let _ = eig.psi_on_line(&near, 0.0).expect("line");
+        let t_near = t.elapsed().as_secs_f64();
+        let t = Instant::now();
+        let _ = eig.psi_on_line(&far, 0.0).expect("line");
+        let t_far = t.elapsed().as_secs_f64();
+        println!("  [-2,2]: {t_near:.3} s, [-20,-16]: {t_far:.3} s, ratio {:.2}", t_far / t_near);
+        println!("target: 200 points at 50 digits under 20 s");
+        let bits = regwave::precision::with_guard(regwave::precision::bits_for_digits(50.0));
+        let a50 = attractor::solve_levels(&laurent, 0..=0, 50).expect("attractor")[0].modulus.clone();
+        let t = Instant::now();
+        let eig = Eigenfunction::new(&laurent, rug::Complex::with_val(bits, (&a50, 0)), 50.0, None, 0.3).expect("eigenfunction");
+        let _ = eig.psi_on_line(&near, 0.0).expect("line");
+        println!("  {:.2} s", t.elapsed().as_secs_f64());
+    }
+
     println!("target: [phi^n]_0 for n <= 2000 under 0.5 s");
     for id in ["F0", "P2", "dP3", "F0*"] {
         let laurent = Laurent::tempered(&catalogue::by_id(id).expect("id").polygon());

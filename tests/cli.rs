@@ -162,3 +162,73 @@ fn bad_moduli_digits_and_levels() {
     // The one reflexive class without a strip form has no β rule: not applicable.
     rejects(&["attractors", "--family", "P2*"], "not applicable");
 }
+
+fn temp_dir(tag: &str) -> std::path::PathBuf {
+    let d = std::env::temp_dir().join(format!("regwave-{tag}-{}", std::process::id()));
+    let _ = std::fs::remove_dir_all(&d);
+    d
+}
+
+/// Rows of a psi CSV: (r, re, im), after checking the header.
+fn read_csv(path: &std::path::Path) -> Vec<(f64, f64, f64)> {
+    let text = std::fs::read_to_string(path).unwrap();
+    let mut lines = text.lines();
+    assert_eq!(lines.next(), Some("r,re_psi,im_psi"));
+    lines
+        .map(|l| {
+            let v: Vec<f64> = l.split(',').map(|x| x.parse::<f64>().unwrap()).collect();
+            (v[0], v[1], v[2])
+        })
+        .collect()
+}
+
+#[test]
+fn build_writes_loadable_files() {
+    // The example: dP3 level 2 on −12:12:481 with the strip lines; three CSVs with the
+    // header r,re_psi,im_psi (one numpy.loadtxt(..., delimiter=",", skiprows=1) each) and a JSON
+    // sidecar. The poles of dP3 at ±2πi are located and written as nan, never sampled.
+    let dir = temp_dir("build");
+    let o = regwave(&["build", "--family", "dP3", "--level", "2", "--grid", "-12:12:481", "--strip", "--out", dir.to_str().unwrap()]);
+    assert!(o.status.success(), "{}", stderr(&o));
+    let main = read_csv(&dir.join("psi.csv"));
+    assert_eq!(main.len(), 481);
+    let norm: f64 = main.iter().map(|(_, a, b)| a * a + b * b).sum::<f64>() * 0.05;
+    assert!((norm - 1.0).abs() < 1e-4, "norm on the grid {norm}");
+    for f in ["psi_up.csv", "psi_down.csv"] {
+        let rows = read_csv(&dir.join(f));
+        assert_eq!(rows.len(), 481);
+        let nans: Vec<f64> = rows.iter().filter(|r| r.1.is_nan()).map(|r| r.0).collect();
+        assert_eq!(nans, vec![0.0], "{f}: the pole at r = 0 only");
+    }
+    let v: serde_json::Value = serde_json::from_str(&std::fs::read_to_string(dir.join("psi.json")).unwrap()).unwrap();
+    for key in ["inputs", "modulus", "lambda", "base_point", "precision_bits", "normalization", "checks", "tool_version", "elapsed_s"] {
+        assert!(v.get(key).is_some(), "missing {key}");
+    }
+    assert!(v["checks"]["eigen_equation_residual_max"].as_f64().unwrap() < 1e-9);
+    assert!(v["modulus"].as_str().unwrap().starts_with("534.3440388"));
+    // Existing output without --force: refused, files untouched.
+    let before = std::fs::read_to_string(dir.join("psi.json")).unwrap();
+    rejects(&["build", "--family", "dP3", "--level", "2", "--out", dir.to_str().unwrap()], "--force");
+    assert_eq!(before, std::fs::read_to_string(dir.join("psi.json")).unwrap());
+    let _ = std::fs::remove_dir_all(&dir);
+}
+
+#[test]
+fn build_refuses_bad_input() {
+    let dir = temp_dir("build-bad");
+    let out = dir.to_str().unwrap();
+    // Not an attractor modulus: ν and its distance to Z are reported.
+    rejects(&["build", "--family", "F0", "--modulus", "20", "--out", out], "not an attractor modulus: nu =");
+    rejects(&["build", "--family", "F0", "--level", "0", "--grid", "3:-3:10", "--out", out], "reversed");
+    rejects(&["build", "--family", "F0", "--level", "0", "--grid", "1:2", "--out", out], "R0:R1:N");
+    rejects(&["build", "--family", "F0", "--level", "0", "--grid", "0:1:1", "--out", out], "points");
+    rejects(&["build", "--family", "F0", "--level", "0", "--out", "/proc/regwave-no"], "cannot");
+    rejects(&["build", "--family", "F0", "--out", out], "--level");
+    assert!(!dir.exists() || std::fs::read_dir(&dir).unwrap().next().is_none(), "nothing half-written");
+    // --allow-non-attractor builds anyway and records how far ν is from an integer.
+    let o = regwave(&["build", "--family", "F0", "--modulus", "20", "--allow-non-attractor", "--grid", "-2:2:21", "--out", out]);
+    assert!(o.status.success(), "{}", stderr(&o));
+    let v: serde_json::Value = serde_json::from_str(&std::fs::read_to_string(dir.join("psi.json")).unwrap()).unwrap();
+    assert!(v["nu_distance_to_integer"].as_f64().unwrap() > 1e-3);
+    let _ = std::fs::remove_dir_all(&dir);
+}
