@@ -197,3 +197,60 @@ fn level_n_has_n_zeros_between_the_outermost_turning_points() {
         assert_eq!(zeros, n, "level {n}: {zeros} sign changes in [−{outer:.3}, {outer:.3}]");
     }
 }
+
+#[test]
+fn shift_relation_on_independent_routes() {
+    // χ(τ̃z̃) = −y·χ(z̃), τ̃(z, y) = (z − 2πi, y) (MATH.md §5), with χ(τ̃z̃) integrated along its own
+    // route: along the spine past one branch point of the β pair, down one period, and back. That route meets the point over z − 2πi on the sheet whose D differs in sign from the
+    // direct one (it went around one branch point), so the value is read off the sheet with the
+    // same y. Holds at the attractor modulus, fails off it (a β loop multiplies χ by e^{−2πiν}).
+    use regwave::cover::SingularKind;
+    use regwave::periods;
+    let two_pi = 2.0 * std::f64::consts::PI;
+    // (dP3's inner branch points share their real part, so a rectangle cannot separate them; the
+    // route dependence and Cauchy tests cover dP3.)
+    for id in ["F0", "P2"] {
+        let l = family(id);
+        let a = attractor_moduli(id, 1..=1)[0];
+        let defect = |a: f64| -> f64 {
+            let eig = Eigenfunction::new(&l, Complex64::new(a, 0.0), 15.0, None, 0.3).unwrap();
+            let sing = eig.curve().singular_points().unwrap();
+            let pair = periods::beta_loop(eig.curve(), &sing).unwrap().branch_points;
+            let res: Vec<f64> = sing.iter().filter(|s| s.kind == SingularKind::Branch).map(|s| s.z.re).collect();
+            // The other sheet's base was reached around the branch point nearest the base point;
+            // the rectangle goes around the other member of the β pair, so that the two together
+            // make the β loop.
+            let nearest_right = {
+                let b = eig.base.z;
+                let near = sing
+                    .iter()
+                    .filter(|s| s.kind == SingularKind::Branch)
+                    .flat_map(|s| (-1..=1).map(move |k| s.z + Complex64::new(0.0, k as f64 * two_pi)))
+                    .min_by(|p, q| (p - b).norm().total_cmp(&(q - b).norm()))
+                    .unwrap();
+                near.re > b.re
+            };
+            let zr = if nearest_right {
+                let left = res.iter().copied().filter(|&r| r < pair[0][0] - 1e-9).fold(f64::NEG_INFINITY, f64::max);
+                if left.is_finite() { 0.5 * (left + pair[0][0]) } else { pair[0][0] - 1.0 }
+            } else {
+                let right = res.iter().copied().filter(|&r| r > pair[1][0] + 1e-9).fold(f64::INFINITY, f64::min);
+                if right.is_finite() { 0.5 * (right + pair[1][0]) } else { pair[1][0] + 1.0 }
+            };
+            let c = eig.spine;
+            let z = Complex64::new(eig.base.z.re + 0.2, c);
+            let here = eig.sheets_along(&[eig.base.z, z]).unwrap();
+            let route = [eig.base.z, Complex64::new(zr, c), Complex64::new(zr, c - two_pi), z - Complex64::new(0.0, two_pi)];
+            let below = eig.sheets_along(&route).unwrap();
+            // The sheet of `below` with the same y as `here` has the same D (D is 2πi-periodic).
+            let chi_below = if (below.d - here.d).norm() < (below.d + here.d).norm() { below.chi } else { below.chi_other };
+            let [y1, y2] = eig.curve().roots(&z);
+            let y = if (eig.curve().d(&z, &y1) - here.d).norm() < (eig.curve().d(&z, &y2) - here.d).norm() { y1 } else { y2 };
+            (chi_below + y * here.chi).norm() / (y * here.chi).norm()
+        };
+        let at = defect(a);
+        let off = defect(a * (1.0 + 1e-6));
+        assert!(at < 1e-9, "{id}: shift relation defect {at:e} at the attractor");
+        assert!(off > 1e-8, "{id}: shift relation still holds ({off:e}) off the attractor");
+    }
+}
