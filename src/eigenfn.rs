@@ -500,3 +500,25 @@ impl<T: CNum> Eigenfunction<T> {
         })
     }
 }
+
+/// The reality rule of a family: the k ∈ {−3, …, 3} (smallest |k|, then k) for which the terms of
+/// φ are invariant under m ↦ (m₁ + k m₂, −m₂). That map is the linear antisymplectic
+/// (r, p) ↦ (r, k r − p), implemented at ħ = 2π by the antiunitary Θ_k = e^{ikr²/(4π)}K (K complex
+/// conjugation), which then commutes with Ô; so an eigenfunction satisfies Θ_k ψ = cψ and
+/// **e^{−ikr²/(8π)} ψ(r) is real up to a constant**. k = 0 for F0 (ψ real), k = −1 for P2 and dP3
+/// (e^{ir²/(8π)}ψ real, MATH.md §2). None when no such k exists (then the phase profile is the
+/// information to report).
+pub fn reality_rule(laurent: &Laurent) -> Option<i64> {
+    let terms = laurent.terms();
+    let mut ks: Vec<i64> = (-3..=3).collect();
+    ks.sort_by_key(|k| (k.abs(), *k));
+    ks.into_iter().find(|&k| {
+        terms.iter().all(|&([m1, m2], c)| terms.iter().any(|&(q, cq)| q == [m1 + k * m2, -m2] && cq == c))
+    })
+}
+
+/// The phase factor e^{−ikr²/(8π)} of the reality rule at r.
+pub fn reality_factor(k: i64, r: f64) -> Complex64 {
+    Complex64::from_polar(1.0, -(k as f64) * r * r / (8.0 * std::f64::consts::PI))
+}
+

@@ -304,6 +304,8 @@ struct Samples {
     base: Complex64,
     residual: Option<f64>,
     poles: Vec<[f64; 2]>,
+    rule: Option<i64>,
+    reality_defect: Option<f64>,
 }
 
 fn sample<T: CNum>(laurent: &regwave::laurent::Laurent, a: T, digits: f64, grid: &[f64], strip: bool) -> Result<Samples, Failure> {
@@ -317,9 +319,27 @@ fn sample<T: CNum>(laurent: &regwave::laurent::Laurent, a: T, digits: f64, grid:
     let line = |im: f64| -> Result<Vec<Option<Complex64>>, Failure> {
         Ok(eig.psi_on_line(grid, im).map_err(Failure::compute)?.into_iter().map(|v| v.map(|v| v.to_c64() * norm.factor)).collect())
     };
-    let main: Vec<Complex64> = line(0.0)?.into_iter().map(|v| v.unwrap_or(Complex64::new(f64::NAN, f64::NAN))).collect();
+    let mut main: Vec<Complex64> = line(0.0)?.into_iter().map(|v| v.unwrap_or(Complex64::new(f64::NAN, f64::NAN))).collect();
     let two_pi = 2.0 * std::f64::consts::PI;
-    let (up, down) = if strip { (line(two_pi)?, line(-two_pi)?) } else { (Vec::new(), Vec::new()) };
+    let (mut up, mut down) = if strip { (line(two_pi)?, line(-two_pi)?) } else { (Vec::new(), Vec::new()) };
+    // Phase: with a reality rule k, e^{−ikr²/(8π)}ψ is made real and positive at the grid point of
+    // largest |ψ| (the normalization already made ψ itself positive at the peak on R).
+    let rule = eigenfn::reality_rule(laurent);
+    let mut reality_defect = None;
+    if let Some(k) = rule {
+        let g: Vec<Complex64> = main.iter().zip(grid).map(|(v, &r)| v * eigenfn::reality_factor(k, r)).collect();
+        if let Some(peak) = g.iter().copied().filter(|v| v.is_finite()).max_by(|x, y| x.norm().total_cmp(&y.norm())) {
+            let turn = (peak / peak.norm()).conj();
+            for v in main.iter_mut() {
+                *v *= turn;
+            }
+            for v in up.iter_mut().chain(down.iter_mut()).flatten() {
+                *v *= turn;
+            }
+            let d = g.iter().filter(|v| v.is_finite()).map(|v| (v * turn).im.abs()).fold(0.0, f64::max) / peak.norm();
+            reality_defect = Some(d);
+        }
+    }
     // Eigen-equation residual on the grid from the independently integrated lines.
     let residual = if strip {
         let q = regwave::operator::QuantumCurve::new(laurent).map_err(Failure::input)?;
@@ -347,6 +367,8 @@ fn sample<T: CNum>(laurent: &regwave::laurent::Laurent, a: T, digits: f64, grid:
         base: eig.base.z.to_c64(),
         residual,
         poles,
+        rule,
+        reality_defect,
     })
 }
 
@@ -422,8 +444,12 @@ fn build_command(args: &BuildArgs) -> Result<(), Failure> {
         "base_point": {"re": s.base.re, "im": s.base.im},
         "spine_im": s.spine,
         "precision_bits": if args.digits <= 16 { 53 } else { bits },
+        "phase_rule": match s.rule {
+            Some(k) => json!({"k": k, "statement": format!("exp(-i*({k})*r^2/(8*pi)) * psi(r) is real (antiunitary symmetry m -> (m1 + ({k}) m2, -m2))"), "max_imaginary_part_relative": s.reality_defect}),
+            None => json!({"k": null, "statement": "no pointwise reality rule for this family: the phase profile arg psi(r) is in psi.csv"}),
+        },
         "normalization": {
-            "rule": "unit L2 norm on R; psi real and positive where |psi| is largest",
+            "rule": "unit L2 norm on R; with a phase rule, exp(-i k r^2/(8 pi)) psi real and positive where |psi| is largest on the grid, else psi itself",
             "raw_norm_squared": s.norm.raw_norm_squared,
             "quadrature_range": s.norm.range,
             "quadrature_step": s.norm.step,
