@@ -297,7 +297,7 @@ impl<T: CNum> Eigenfunction<T> {
                     out[i] = Some(self.psi(&z)?);
                     continue;
                 }
-                let down = [on_spine, z.clone()];
+                let down = self.vertical_route(on_spine, &z, r, spine, im);
                 let (q1, j1) = continue_along(&self.curve, &self.singular, &a1, &down, &self.march)?;
                 let (_, j2) = continue_along(&self.curve, &self.singular, &a2, &down, &self.march)?;
                 let chi = (-((f1.clone() + exponent(&j1)) / two_pi_i.clone())).exp();
@@ -307,6 +307,39 @@ impl<T: CNum> Eigenfunction<T> {
             }
         }
         Ok(out)
+    }
+
+    /// The step from the spine point above `r` to `z`: straight down, or — when a singular point
+    /// lies within 2·[`NEAR_SINGULAR`] of that vertical segment — down a vertical line shifted
+    /// sideways by 3·[`NEAR_SINGULAR`] (away from the singular point) and then across to z.
+    fn vertical_route(&self, on_spine: T, z: &T, r: f64, spine: f64, im: f64) -> Vec<T> {
+        let prec = z.prec();
+        let two_pi = 2.0 * std::f64::consts::PI;
+        let (lo, hi) = (spine.min(im), spine.max(im));
+        let mut blocking: Option<f64> = None;
+        for s in &self.singular {
+            let (sr, si) = (s.z.re_f64(), s.z.im_f64());
+            for j in -2..=2 {
+                let y = si + j as f64 * two_pi;
+                let dy = if y < lo { lo - y } else if y > hi { y - hi } else { 0.0 };
+                let d = ((sr - r).powi(2) + dy * dy).sqrt();
+                if d < 2.0 * NEAR_SINGULAR && (y - im).abs() > 1e-12 {
+                    blocking = Some(sr);
+                }
+            }
+        }
+        match blocking {
+            None => vec![on_spine, z.clone()],
+            Some(sr) => {
+                let shift = if r >= sr { 3.0 * NEAR_SINGULAR } else { -3.0 * NEAR_SINGULAR };
+                vec![
+                    on_spine,
+                    T::from_f64s(r + shift, spine, prec),
+                    T::from_f64s(r + shift, im, prec),
+                    z.clone(),
+                ]
+            }
+        }
     }
 
     /// Distance from z to the nearest pole of ψ (the punctures 2πik, k ≠ 0, when A or C vanishes

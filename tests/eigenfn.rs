@@ -280,3 +280,29 @@ fn reality_rules_hold_for_every_family_that_has_one() {
         assert!(defect < 1e-9, "{} (k = {k}): imaginary part {defect:e}", f.id);
     }
 }
+
+#[test]
+fn zeros_of_the_reality_corrected_eigenfunctions_of_p2_and_dp3() {
+    // P2 and dP3 (reality rule k = −1): g(r) = e^{ir²/(8π)} ψ(r) is real up to a constant; level n
+    // has n sign changes of g between the outermost real parts of the branch points (fact of the
+    // trade for these operators; common practice, no source).
+    use regwave::cover::SingularKind;
+    use regwave::eigenfn::{reality_factor, reality_rule};
+    for id in ["P2", "dP3"] {
+        let l = family(id);
+        let k = reality_rule(&l).unwrap();
+        for (n, &a) in attractor_moduli(id, 0..=5).iter().enumerate() {
+            let eig = Eigenfunction::new(&l, Complex64::new(a, 0.0), 15.0, None, 0.3).unwrap();
+            let sing = eig.curve().singular_points().unwrap();
+            let res: Vec<f64> = sing.iter().filter(|s| s.kind == SingularKind::Branch).map(|s| s.z.re).collect();
+            let (lo, hi) = (res.iter().copied().fold(f64::INFINITY, f64::min), res.iter().copied().fold(f64::NEG_INFINITY, f64::max));
+            let grid: Vec<f64> = (0..=2000).map(|j| lo + (hi - lo) * j as f64 / 2000.0).collect();
+            let g: Vec<Complex64> =
+                eig.psi_on_line(&grid, 0.0).unwrap().into_iter().zip(&grid).map(|(v, &r)| v.unwrap() * reality_factor(k, r)).collect();
+            let peak = g.iter().copied().max_by(|x, y| x.norm().total_cmp(&y.norm())).unwrap();
+            let real: Vec<f64> = g.iter().map(|v| (v / (peak / peak.norm())).re).collect();
+            let zeros = real.windows(2).filter(|w| w[0].signum() != w[1].signum()).count();
+            assert_eq!(zeros, n, "{id} level {n}: {zeros} sign changes in [{lo:.3}, {hi:.3}]");
+        }
+    }
+}
