@@ -306,3 +306,20 @@ fn zeros_of_the_reality_corrected_eigenfunctions_of_p2_and_dp3() {
         }
     }
 }
+
+#[test]
+fn decay_rates_on_the_real_line() {
+    // |ψ| ~ e^{−|r|} on both sides for F0 and dP3; for P2 e^{−r} as r → +∞ and e^{r/2} as
+    // r → −∞ (MATH.md §2, x → 0 is a branch point of P2): fitted slopes within 2 %.
+    let cases = [("F0", [1.0, 1.0]), ("dP3", [1.0, 1.0]), ("P2", [0.5, 1.0])];
+    for (id, want) in cases {
+        let l = family(id);
+        let a = attractor_moduli(id, 1..=1)[0];
+        let eig = Eigenfunction::new(&l, Complex64::new(a, 0.0), 15.0, None, 0.3).unwrap();
+        let norm = eig.normalization(0.05).unwrap();
+        for side in 0..2 {
+            let rel = (norm.decay[side] - want[side]).abs() / want[side];
+            assert!(rel < 0.02, "{id} side {side}: rate {} vs {}", norm.decay[side], want[side]);
+        }
+    }
+}
