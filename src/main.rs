@@ -310,18 +310,35 @@ struct Samples {
 
 fn sample<T: CNum>(laurent: &regwave::laurent::Laurent, a: T, digits: f64, grid: &[f64], strip: bool) -> Result<Samples, Failure> {
     let prec = a.prec();
-    let a_c = a.to_c64();
     let eig = Eigenfunction::new(laurent, a, digits, None, 0.3).map_err(Failure::compute)?;
     let norm = eig.normalization(0.05).map_err(Failure::compute)?;
     let poles = eigenfn::strip_poles(eig.curve());
-    let _ = prec;
-    // A pole is located and reported, never sampled (None).
-    let line = |im: f64| -> Result<Vec<Option<Complex64>>, Failure> {
-        Ok(eig.psi_on_line(grid, im).map_err(Failure::compute)?.into_iter().map(|v| v.map(|v| v.to_c64() * norm.factor)).collect())
-    };
-    let mut main: Vec<Complex64> = line(0.0)?.into_iter().map(|v| v.unwrap_or(Complex64::new(f64::NAN, f64::NAN))).collect();
+    // A pole is located and reported, never sampled (None). Values stay at the working
+    // precision until the residual is formed (its terms are up to a·|ψ|: in f64 the residual
+    // itself would be floored at 1e-16·a).
+    let raw_line = |im: f64| -> Result<Vec<Option<T>>, Failure> { eig.psi_on_line(grid, im).map_err(Failure::compute) };
+    let raw_main = raw_line(0.0)?;
     let two_pi = 2.0 * std::f64::consts::PI;
-    let (mut up, mut down) = if strip { (line(two_pi)?, line(-two_pi)?) } else { (Vec::new(), Vec::new()) };
+    let (raw_up, raw_down) = if strip { (raw_line(two_pi)?, raw_line(-two_pi)?) } else { (Vec::new(), Vec::new()) };
+    let residual = if strip {
+        let q = regwave::operator::QuantumCurve::new(laurent).map_err(Failure::input)?;
+        let scale = raw_main.iter().flatten().map(|v| v.abs_f64()).fold(0.0, f64::max);
+        let a_t = T::from_f64s(0.0, 0.0, prec) + eig.curve().modulus().clone();
+        let mut worst: f64 = 0.0;
+        for (k, &r) in grid.iter().enumerate() {
+            if let (Some(d), Some(m), Some(u)) = (&raw_down[k], &raw_main[k], &raw_up[k]) {
+                let c = q.coefficients(&T::from_f64s(r, 0.0, prec));
+                let res = c.down * d.clone() + (c.centre - a_t.clone()) * m.clone() + c.up * u.clone();
+                worst = worst.max(res.abs_f64() / scale);
+            }
+        }
+        Some(worst)
+    } else {
+        None
+    };
+    let round = |v: Vec<Option<T>>| -> Vec<Option<Complex64>> { v.into_iter().map(|v| v.map(|v| v.to_c64() * norm.factor)).collect() };
+    let mut main: Vec<Complex64> = round(raw_main).into_iter().map(|v| v.unwrap_or(Complex64::new(f64::NAN, f64::NAN))).collect();
+    let (mut up, mut down) = (round(raw_up), round(raw_down));
     // Phase: with a reality rule k, e^{−ikr²/(8π)}ψ is made real and positive at the grid point of
     // largest |ψ| (the normalization already made ψ itself positive at the peak on R).
     let rule = eigenfn::reality_rule(laurent);
@@ -340,22 +357,6 @@ fn sample<T: CNum>(laurent: &regwave::laurent::Laurent, a: T, digits: f64, grid:
             reality_defect = Some(d);
         }
     }
-    // Eigen-equation residual on the grid from the independently integrated lines.
-    let residual = if strip {
-        let q = regwave::operator::QuantumCurve::new(laurent).map_err(Failure::input)?;
-        let scale = main.iter().map(|v| v.norm()).fold(0.0, f64::max);
-        let mut worst: f64 = 0.0;
-        for (k, &r) in grid.iter().enumerate() {
-            if let (Some(d), Some(u)) = (down[k], up[k]) {
-                let c = q.coefficients(&Complex64::new(r, 0.0));
-                let res = c.down * d + (c.centre - a_c) * main[k] + c.up * u;
-                worst = worst.max(res.norm() / scale);
-            }
-        }
-        Some(worst)
-    } else {
-        None
-    };
     Ok(Samples {
         grid: grid.to_vec(),
         main,
@@ -421,12 +422,34 @@ fn build_command(args: &BuildArgs) -> Result<(), Failure> {
         }
     }
     let grid_values = grid.values();
-    let digits = args.digits as f64;
-    let s = if args.digits <= 16 {
+    // The exponent integrals grow like |λ| = |R_α/Ω_α| (≈ 50 at F0 level 0, 2e5 at level 9), and
+    // exp loses log₁₀|λ| digits: measured residual ≈ 2e-15·|λ| in double precision. When that
+    // would exceed 1e-11 the working precision is raised (rug) by the digits lost.
+    let lambda = {
+        let curve = regwave::cover::Curve::new(&sel.laurent, Complex64::new(a.to_f64(), 0.0)).map_err(Failure::compute)?;
+        let sing = curve.singular_points().map_err(Failure::compute)?;
+        let alpha = periods::alpha_path(&curve, &sing, &regwave::cover::March::for_digits(15.0)).map_err(Failure::compute)?;
+        (alpha.regulator / alpha.omega).norm()
+    };
+    let lost = lambda.max(1.0).log10();
+    let digits = if args.digits <= 16 && 2e-15 * lambda > 1e-11 { (16.0 + lost).ceil() } else { args.digits as f64 };
+    let work_bits = with_guard(bits_for_digits(digits.max(args.digits as f64) + if args.digits > 16 { lost } else { 0.0 }));
+    let double = args.digits <= 16 && digits <= 16.0;
+    // The modulus must carry the working precision: re-solve the attractor there if needed.
+    let a = match (double, level, &args.modulus) {
+        (false, Some(n), None) => {
+            let d = regwave::precision::digits_for_bits(work_bits).min(regwave::precision::MAX_DIGITS);
+            attractor::solve_levels(&sel.laurent, n..=n, d).map_err(Failure::compute)?[0].modulus.clone()
+        }
+        _ => a,
+    };
+    let s = if double {
         sample(&sel.laurent, Complex64::new(a.to_f64(), 0.0), 15.0, &grid_values, args.strip)?
     } else {
-        sample(&sel.laurent, rug::Complex::with_val(bits, (&a, 0)), digits, &grid_values, args.strip)?
+        let a_work = rug::Float::with_val(work_bits, &a);
+        sample(&sel.laurent, rug::Complex::with_val(work_bits, (&a_work, 0)), regwave::precision::digits_for_bits(work_bits) as f64, &grid_values, args.strip)?
     };
+    let bits = if double { 53 } else { work_bits };
     let elapsed = start.elapsed().as_secs_f64();
     let mut inputs = family_inputs(&args.family, &sel);
     inputs["level"] = json!(args.level);
@@ -443,7 +466,8 @@ fn build_command(args: &BuildArgs) -> Result<(), Failure> {
         "lambda": {"re": s.lambda.re, "im": s.lambda.im},
         "base_point": {"re": s.base.re, "im": s.base.im},
         "spine_im": s.spine,
-        "precision_bits": if args.digits <= 16 { 53 } else { bits },
+        "precision_bits": bits,
+        "lambda_digits_lost": lost,
         "phase_rule": match s.rule {
             Some(k) => json!({"k": k, "statement": format!("exp(-i*({k})*r^2/(8*pi)) * psi(r) is real (antiunitary symmetry m -> (m1 + ({k}) m2, -m2))"), "max_imaginary_part_relative": s.reality_defect}),
             None => json!({"k": null, "statement": "no pointwise reality rule for this family: the phase profile arg psi(r) is in psi.csv"}),
