@@ -252,6 +252,18 @@ impl<T: CNum> Eigenfunction<T> {
     /// # Errors
     /// See [`crate::cover::continue_along`].
     pub fn psi_on_line(&self, grid: &[f64], im: f64) -> Result<Vec<Option<T>>, EigenError> {
+        Ok(self.psi_on_line_with_loss(grid, im)?.0)
+    }
+
+    /// As [`Eigenfunction::psi_on_line`], also returning the largest cancellation loss on the
+    /// line in decimal digits, `log₁₀(max(|χ|, |χ∘ι̃|) / |χ − χ∘ι̃|)`: the digits of the working
+    /// precision that the difference consumes (far out on the lines Im z = ±2π at high levels
+    /// this exceeds 100).
+    ///
+    /// # Errors
+    /// See [`Eigenfunction::psi_on_line`].
+    pub fn psi_on_line_with_loss(&self, grid: &[f64], im: f64) -> Result<(Vec<Option<T>>, f64), EigenError> {
+        let mut loss: f64 = 0.0;
         let prec = self.lambda.prec();
         let two_pi = 2.0 * std::f64::consts::PI;
         let spine = if im < -1e-9 { self.spine - two_pi } else { self.spine };
@@ -303,10 +315,15 @@ impl<T: CNum> Eigenfunction<T> {
                 let chi = (-((f1.clone() + exponent(&j1)) / two_pi_i.clone())).exp();
                 let chi_other = (-((f2.clone() + exponent(&j2)) / two_pi_i.clone())).exp();
                 let d = self.curve.d(&q1.z, &q1.y);
-                out[i] = Some((chi - chi_other) / d);
+                let diff = chi.clone() - chi_other.clone();
+                let big = chi.abs_f64().max(chi_other.abs_f64());
+                if diff.abs_f64() > 0.0 {
+                    loss = loss.max((big / diff.abs_f64()).log10());
+                }
+                out[i] = Some(diff / d);
             }
         }
-        Ok(out)
+        Ok((out, loss))
     }
 
     /// The step from the spine point above `r` to `z`: straight down, or — when a singular point

@@ -306,6 +306,7 @@ struct Samples {
     poles: Vec<[f64; 2]>,
     rule: Option<i64>,
     reality_defect: Option<f64>,
+    cancellation_digits: f64,
 }
 
 fn sample<T: CNum>(laurent: &regwave::laurent::Laurent, a: T, digits: f64, grid: &[f64], strip: bool) -> Result<Samples, Failure> {
@@ -316,10 +317,16 @@ fn sample<T: CNum>(laurent: &regwave::laurent::Laurent, a: T, digits: f64, grid:
     // A pole is located and reported, never sampled (None). Values stay at the working
     // precision until the residual is formed (its terms are up to a·|ψ|: in f64 the residual
     // itself would be floored at 1e-16·a).
-    let raw_line = |im: f64| -> Result<Vec<Option<T>>, Failure> { eig.psi_on_line(grid, im).map_err(Failure::compute) };
+    let loss = std::cell::Cell::new(0.0f64);
+    let raw_line = |im: f64| -> Result<Vec<Option<T>>, Failure> {
+        let (v, l) = eig.psi_on_line_with_loss(grid, im).map_err(Failure::compute)?;
+        loss.set(loss.get().max(l));
+        Ok(v)
+    };
     let raw_main = raw_line(0.0)?;
     let two_pi = 2.0 * std::f64::consts::PI;
     let (raw_up, raw_down) = if strip { (raw_line(two_pi)?, raw_line(-two_pi)?) } else { (Vec::new(), Vec::new()) };
+    let cancellation_digits = loss.get();
     let residual = if strip {
         let q = regwave::operator::QuantumCurve::new(laurent).map_err(Failure::input)?;
         let scale = raw_main.iter().flatten().map(|v| v.abs_f64()).fold(0.0, f64::max);
@@ -370,6 +377,7 @@ fn sample<T: CNum>(laurent: &regwave::laurent::Laurent, a: T, digits: f64, grid:
         poles,
         rule,
         reality_defect,
+        cancellation_digits,
     })
 }
 
@@ -449,7 +457,24 @@ fn build_command(args: &BuildArgs) -> Result<(), Failure> {
         let a_work = rug::Float::with_val(work_bits, &a);
         sample(&sel.laurent, rug::Complex::with_val(work_bits, (&a_work, 0)), regwave::precision::digits_for_bits(work_bits) as f64, &grid_values, args.strip)?
     };
-    let bits = if double { 53 } else { work_bits };
+    // The difference χ − χ∘ι̃ consumes digits where both are large (the strip lines at high
+    // levels): if fewer than 12 digits would survive, redo the lines at a precision that covers
+    // the loss plus 15 digits.
+    let working_digits = if double { 15.0 } else { regwave::precision::digits_for_bits(work_bits) as f64 };
+    let (s, bits) = if working_digits - s.cancellation_digits < 12.0 {
+        let need = (15.0 + s.cancellation_digits + 4.0).ceil();
+        let retry_bits = with_guard(bits_for_digits(need));
+        let d = regwave::precision::digits_for_bits(retry_bits).min(regwave::precision::MAX_DIGITS);
+        let a_retry = match (level, &args.modulus) {
+            (Some(n), None) => attractor::solve_levels(&sel.laurent, n..=n, d).map_err(Failure::compute)?[0].modulus.clone(),
+            _ => rug::Float::with_val(retry_bits, &a),
+        };
+        let a_retry = rug::Float::with_val(retry_bits, &a_retry);
+        let s2 = sample(&sel.laurent, rug::Complex::with_val(retry_bits, (&a_retry, 0)), d as f64, &grid_values, args.strip)?;
+        (s2, retry_bits)
+    } else {
+        (s, if double { 53 } else { work_bits })
+    };
     let elapsed = start.elapsed().as_secs_f64();
     let mut inputs = family_inputs(&args.family, &sel);
     inputs["level"] = json!(args.level);
@@ -468,6 +493,7 @@ fn build_command(args: &BuildArgs) -> Result<(), Failure> {
         "spine_im": s.spine,
         "precision_bits": bits,
         "lambda_digits_lost": lost,
+        "cancellation_digits_lost": s.cancellation_digits,
         "phase_rule": match s.rule {
             Some(k) => json!({"k": k, "statement": format!("exp(-i*({k})*r^2/(8*pi)) * psi(r) is real (antiunitary symmetry m -> (m1 + ({k}) m2, -m2))"), "max_imaginary_part_relative": s.reality_defect}),
             None => json!({"k": null, "statement": "no pointwise reality rule for this family: the phase profile arg psi(r) is in psi.csv"}),
