@@ -1,5 +1,5 @@
-//! Eigen-equation residual at one point for several working precisions (development aid):
-//! `cargo run --release --example residual_ladder -- F0 0`.
+//! Eigen-equation residual at a few points for several working precisions, pointwise and by
+//! spine marching (development aid): `cargo run --release --example residual_ladder -- F0 5`.
 use regwave::eigenfn::Eigenfunction;
 use regwave::numeric::CNum;
 use regwave::operator::QuantumCurve;
@@ -10,16 +10,28 @@ fn main() {
     let l = regwave::laurent::Laurent::tempered(&regwave::catalogue::by_id(&id).expect("id").polygon());
     let a = regwave::attractor::solve_levels(&l, level..=level, 80).expect("a")[0].modulus.clone();
     let q = QuantumCurve::new(&l).expect("q");
-    for digits in [20u32, 30, 40, 60] {
+    let two_pi = 2.0 * std::f64::consts::PI;
+    for digits in [20u32, 40] {
         let bits = regwave::precision::with_guard(regwave::precision::bits_for_digits(digits as f64));
         let ac = Complex::with_val(bits, (&a, 0));
         let eig = Eigenfunction::new(&l, ac.clone(), digits as f64, None, 0.3).expect("eig");
-        for r in [0.37, 1.3] {
+        let grid = [0.37, 5.0, 10.7];
+        let main = eig.psi_on_line(&grid, 0.0).expect("line");
+        let up = eig.psi_on_line(&grid, two_pi).expect("line");
+        let down = eig.psi_on_line(&grid, -two_pi).expect("line");
+        for (k, &r) in grid.iter().enumerate() {
             let z = Complex::with_val(bits, r);
-            let res = q.apply(|w: &Complex| eig.psi(w).expect("psi"), &z, &ac);
-            let here = eig.psi(&z).expect("psi");
-            let line = eig.psi_on_line(&[r], 0.0).expect("line")[0].clone().unwrap();
-            println!("digits {digits} r {r}: residual/|psi| {:.2e}  line vs point {:.2e}", res.abs_f64() / here.abs_f64(), (line - here.clone()).abs_f64() / here.abs_f64());
+            let point = q.apply(|w: &Complex| eig.psi(w).expect("psi"), &z, &ac);
+            let c = q.coefficients(&z);
+            let (m, u, d) = (main[k].clone().unwrap(), up[k].clone().unwrap(), down[k].clone().unwrap());
+            let line = c.down * d.clone() + (c.centre - ac.clone()) * m.clone() + c.up * u.clone();
+            let pd = eig.psi(&(z.clone() - Complex::with_val(bits, (0, two_pi)))).expect("psi");
+            println!(
+                "digits {digits} r {r}: pointwise {:.2e}  lines {:.2e}  (down line vs point {:.2e})",
+                point.abs_f64() / m.abs_f64(),
+                line.abs_f64() / m.abs_f64(),
+                (d.clone() - pd.clone()).abs_f64() / pd.abs_f64()
+            );
         }
     }
 }

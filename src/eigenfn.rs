@@ -247,7 +247,8 @@ impl<T: CNum> Eigenfunction<T> {
     /// translate Im z = c − 2π for −2π, reached from the base point by a vertical path) is marched
     /// once in each direction from the base point, and each target is reached by one vertical
     /// step from the spine, on both sheets. Points within [`NEAR_SINGULAR`] of a singular point
-    /// are evaluated by [`Eigenfunction::psi`]; points on a pole of ψ give `None`.
+    /// are evaluated by [`Eigenfunction::psi`]; points on a pole of ψ give `None`. An `im` within
+    /// 1e-9 of a multiple of 2π means exactly that multiple, at the working precision.
     ///
     /// # Errors
     /// See [`crate::cover::continue_along`].
@@ -255,21 +256,26 @@ impl<T: CNum> Eigenfunction<T> {
         Ok(self.psi_on_line_with_loss(grid, im)?.0)
     }
 
-    /// As [`Eigenfunction::psi_on_line`], also returning the largest cancellation loss on the
-    /// line in decimal digits, `log₁₀(max(|χ|, |χ∘ι̃|) / |χ − χ∘ι̃|)`: the digits of the working
-    /// precision that the difference consumes (far out on the lines Im z = ±2π at high levels
-    /// this exceeds 100).
+    /// As [`Eigenfunction::psi_on_line`], also returning the cancellation loss on the line in
+    /// decimal digits, `log₁₀(max_k max(|χ|, |χ∘ι̃|)/|D| / max_k |ψ|)`: the digits of the working
+    /// precision that the difference χ − χ∘ι̃ consumes, relative to the scale of ψ on the line
+    /// (the absolute accuracy that matters for the residual and the profiles).
     ///
     /// # Errors
     /// See [`Eigenfunction::psi_on_line`].
     pub fn psi_on_line_with_loss(&self, grid: &[f64], im: f64) -> Result<(Vec<Option<T>>, f64), EigenError> {
-        let mut loss: f64 = 0.0;
+        // Loss relative to the scale of ψ on the line (zeros of ψ are not losses).
+        let (mut largest_term, mut largest_value): (f64, f64) = (0.0, 0.0);
         let prec = self.lambda.prec();
         let two_pi = 2.0 * std::f64::consts::PI;
         let spine = if im < -1e-9 { self.spine - two_pi } else { self.spine };
         let like = &self.lambda;
         let two_pi_i = like.int_like(2) * like.pi_like() * like.i_like();
         let exponent = |ints: &crate::cover::PathIntegrals<T>| ints.eta.clone() - self.lambda.clone() * ints.omega.clone();
+        // A line at a multiple of 2π is placed at that multiple computed at the working precision
+        // (an f64 2π would cap the eigen-equation residual near 1e-13).
+        let periods = (im / two_pi).round();
+        let line_im = if (im - periods * two_pi).abs() < 1e-9 { two_pi_i.clone() * like.int_like(periods as i64) } else { T::from_f64s(0.0, im, prec) };
         // Spine start: the base point, or its vertical translate onto the lower spine.
         let (mut s1, mut e1) = (self.base.clone(), like.int_like(0));
         let (mut s2, mut e2) = (self.base_other.0.clone(), self.base_other.1.clone());
@@ -293,7 +299,7 @@ impl<T: CNum> Eigenfunction<T> {
             let (mut a1, mut f1, mut a2, mut f2) = (s1.clone(), e1.clone(), s2.clone(), e2.clone());
             for i in side {
                 let r = grid[i];
-                let z = T::from_f64s(r, im, prec);
+                let z = T::from_f64s(r, 0.0, prec) + line_im.clone();
                 if self.distance_to_pole(&z) < 1e-12 {
                     continue;
                 }
@@ -316,13 +322,14 @@ impl<T: CNum> Eigenfunction<T> {
                 let chi_other = (-((f2.clone() + exponent(&j2)) / two_pi_i.clone())).exp();
                 let d = self.curve.d(&q1.z, &q1.y);
                 let diff = chi.clone() - chi_other.clone();
-                let big = chi.abs_f64().max(chi_other.abs_f64());
-                if diff.abs_f64() > 0.0 {
-                    loss = loss.max((big / diff.abs_f64()).log10());
-                }
-                out[i] = Some(diff / d);
+                let big = chi.abs_f64().max(chi_other.abs_f64()) / d.abs_f64();
+                let value = diff / d;
+                largest_term = largest_term.max(big);
+                largest_value = largest_value.max(value.abs_f64());
+                out[i] = Some(value);
             }
         }
+        let loss = if largest_value > 0.0 { (largest_term / largest_value).log10().max(0.0) } else { 0.0 };
         Ok((out, loss))
     }
 
