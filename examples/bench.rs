@@ -76,9 +76,10 @@ fn main() {
         let eig = Eigenfunction::new(&laurent, Complex64::new(a, 0.0), 15.0, None, 0.3).expect("eigenfunction");
         let grid: Vec<f64> = (0..2000).map(|k| -10.0 + 20.0 * k as f64 / 1999.0).collect();
         let two_pi = 2.0 * std::f64::consts::PI;
-        let main = eig.psi_on_line(&grid, 0.0).expect("line");
-        let up = eig.psi_on_line(&grid, two_pi).expect("line");
-        let down = eig.psi_on_line(&grid, -two_pi).expect("line");
+        let (main, (up, down)) = rayon::join(
+            || eig.psi_on_line(&grid, 0.0).expect("line"),
+            || rayon::join(|| eig.psi_on_line(&grid, two_pi).expect("line"), || eig.psi_on_line(&grid, -two_pi).expect("line")),
+        );
         let q = regwave::operator::QuantumCurve::new(&laurent).expect("operator");
         let scale = main.iter().flatten().map(|v| v.norm()).fold(0.0, f64::max);
         let mut worst: f64 = 0.0;

@@ -310,7 +310,7 @@ struct Samples {
     strip_cancellation_digits: f64,
 }
 
-fn sample<T: CNum>(laurent: &regwave::laurent::Laurent, a: T, digits: f64, grid: &[f64], strip: bool) -> Result<Samples, Failure> {
+fn sample<T: CNum + Send + Sync>(laurent: &regwave::laurent::Laurent, a: T, digits: f64, grid: &[f64], strip: bool) -> Result<Samples, Failure> {
     let prec = a.prec();
     let eig = Eigenfunction::new(laurent, a, digits, None, 0.3).map_err(Failure::compute)?;
     let norm = eig.normalization(0.05).map_err(Failure::compute)?;
@@ -324,11 +324,19 @@ fn sample<T: CNum>(laurent: &regwave::laurent::Laurent, a: T, digits: f64, grid:
         loss.set(loss.get().max(l));
         Ok(v)
     };
-    let raw_main = raw_line(0.0)?;
-    let cancellation_digits = loss.get();
+    let _ = &raw_line;
     let two_pi = 2.0 * std::f64::consts::PI;
-    let (raw_up, raw_down) = if strip { (raw_line(two_pi)?, raw_line(-two_pi)?) } else { (Vec::new(), Vec::new()) };
-    let strip_cancellation_digits = loss.get();
+    // The three lines are independent: computed in parallel.
+    let line_at = |im: f64| eig.psi_on_line_with_loss(grid, im).map_err(Failure::compute);
+    let (main_res, (up_res, down_res)) = rayon::join(
+        || line_at(0.0),
+        || if strip { rayon::join(|| line_at(two_pi).map(Some), || line_at(-two_pi).map(Some)) } else { (Ok(None), Ok(None)) },
+    );
+    let (raw_main, cancellation_digits) = main_res?;
+    let (raw_up, up_loss) = up_res?.unwrap_or((Vec::new(), 0.0));
+    let (raw_down, down_loss) = down_res?.unwrap_or((Vec::new(), 0.0));
+    let strip_cancellation_digits = cancellation_digits.max(up_loss).max(down_loss);
+    loss.set(strip_cancellation_digits);
     let residual = if strip {
         let q = regwave::operator::QuantumCurve::new(laurent).map_err(Failure::input)?;
         let scale = raw_main.iter().flatten().map(|v| v.abs_f64()).fold(0.0, f64::max);
