@@ -211,9 +211,9 @@ impl<T: CNum> Eigenfunction<T> {
         Ok((v.chi - v.chi_other) / v.d)
     }
 
-    /// ψ(z). Within [`NEAR_SINGULAR`] of a branch point or puncture of the cover — where the
-    /// quotient loses about one digit per decade of distance, or the route would end on the
-    /// singular point — ψ is evaluated by the mean-value (Cauchy) formula
+    /// ψ(z). Within [`NEAR_SINGULAR`] of a branch point or puncture of the cover in the interior
+    /// of the strip — where the quotient loses about one digit per decade of distance, or the
+    /// route would end on the singular point — ψ is evaluated by the mean-value (Cauchy) formula
     /// `ψ(z) = (1/M) Σ_k ψ(z + ρ e^{2πik/M})` on a circle of radius ρ = 2·[`NEAR_SINGULAR`]
     /// (ψ is analytic in the strip; the trapezoid rule on the circle converges like (ρ/R)^M,
     /// R ≥ 2π − |Im z| the distance to the poles at ±2πi).
@@ -228,6 +228,13 @@ impl<T: CNum> Eigenfunction<T> {
         // to a point near them is regular; a point on them is refused by the continuation).
         let pole = self.distance_to_pole(z);
         if pole < 4.0 * NEAR_SINGULAR {
+            return self.psi_direct(z);
+        }
+        // On (or near) the boundary lines Im z = ±2π a circle would leave the strip, where ψ need
+        // not be analytic (measured: a circle around r₁ + 2πi for F0 capped the residual at 1e-14
+        // at any precision): evaluate directly there (the quotient then loses about one digit
+        // per decade of distance to the branch point).
+        if z.im_f64().abs() > 2.0 * std::f64::consts::PI - 4.0 * NEAR_SINGULAR {
             return self.psi_direct(z);
         }
         let prec = z.prec();
