@@ -10,16 +10,25 @@ use std::time::Instant;
 
 fn main() {
     println!("target: spectrum with basis 200 under 2 s per family (levels 0..5)");
-    println!("  columns: one N = 200 solve | `spectrum --basis 200` (N = 200 plus its 3N/2 = 300 check)");
+    println!(
+        "  columns: one N = 200 solve | `spectrum --basis 200` (N = 200 plus its 3N/2 = 300 check)"
+    );
     let (mut worst_single, mut worst_pair): (f64, f64) = (0.0, 0.0);
     for f in catalogue::all().iter().filter(|f| f.applicable) {
         let laurent = Laurent::tempered(&f.polygon());
         let frame = spectrum::frame(&laurent, 1.0);
         let t = Instant::now();
-        let single = spectrum::truncated_eigenvalues(&laurent, &frame, 200, 6, 16).expect("spectrum");
+        let single =
+            spectrum::truncated_eigenvalues(&laurent, &frame, 200, 6, 16).expect("spectrum");
         let single_s = t.elapsed().as_secs_f64();
         let t = Instant::now();
-        let opts = SpectrumOptions { levels: 0..=5, basis: 200, max_basis: 300, digits: 16, squeeze: 1.0 };
+        let opts = SpectrumOptions {
+            levels: 0..=5,
+            basis: 200,
+            max_basis: 300,
+            digits: 16,
+            squeeze: 1.0,
+        };
         let s = spectrum::solve(&laurent, &opts).expect("spectrum");
         let pair_s = t.elapsed().as_secs_f64();
         worst_single = worst_single.max(single_s);
@@ -63,7 +72,11 @@ fn main() {
         let bits = regwave::precision::with_guard(regwave::precision::bits_for_digits(50.0));
         let a = rug::Complex::with_val(bits, 200);
         let c = regwave::periods::compare(&laurent, &a, &terms).expect("periods");
-        println!("  {id:<5} a = 200: {:.3} s (series/path agreement {:.1} digits)", t.elapsed().as_secs_f64(), c.agreement_digits.unwrap_or(0.0));
+        println!(
+            "  {id:<5} a = 200: {:.3} s (series/path agreement {:.1} digits)",
+            t.elapsed().as_secs_f64(),
+            c.agreement_digits.unwrap_or(0.0)
+        );
     }
 
     println!("target: F0 level 0, psi at 2,000 points of R in double precision with the residual check, under 0.5 s");
@@ -71,14 +84,24 @@ fn main() {
         use num_complex::Complex64;
         use regwave::eigenfn::Eigenfunction;
         let laurent = Laurent::tempered(&catalogue::by_id("F0").expect("id").polygon());
-        let a = attractor::solve_levels(&laurent, 0..=0, 20).expect("attractor")[0].modulus.to_f64();
+        let a = attractor::solve_levels(&laurent, 0..=0, 20).expect("attractor")[0]
+            .modulus
+            .to_f64();
         let t = Instant::now();
-        let eig = Eigenfunction::new(&laurent, Complex64::new(a, 0.0), 15.0, None, 0.3).expect("eigenfunction");
-        let grid: Vec<f64> = (0..2000).map(|k| -10.0 + 20.0 * k as f64 / 1999.0).collect();
+        let eig = Eigenfunction::new(&laurent, Complex64::new(a, 0.0), 15.0, None, 0.3)
+            .expect("eigenfunction");
+        let grid: Vec<f64> = (0..2000)
+            .map(|k| -10.0 + 20.0 * k as f64 / 1999.0)
+            .collect();
         let two_pi = 2.0 * std::f64::consts::PI;
         let (main, (up, down)) = rayon::join(
             || eig.psi_on_line(&grid, 0.0).expect("line"),
-            || rayon::join(|| eig.psi_on_line(&grid, two_pi).expect("line"), || eig.psi_on_line(&grid, -two_pi).expect("line")),
+            || {
+                rayon::join(
+                    || eig.psi_on_line(&grid, two_pi).expect("line"),
+                    || eig.psi_on_line(&grid, -two_pi).expect("line"),
+                )
+            },
         );
         let q = regwave::operator::QuantumCurve::new(&laurent).expect("operator");
         let scale = main.iter().flatten().map(|v| v.norm()).fold(0.0, f64::max);
@@ -89,7 +112,10 @@ fn main() {
                 worst = worst.max((c.down * d + (c.centre - a) * m + c.up * u).norm() / scale);
             }
         }
-        println!("  {:.3} s for 3 x 2,000 values, residual max {worst:.1e}", t.elapsed().as_secs_f64());
+        println!(
+            "  {:.3} s for 3 x 2,000 values, residual max {worst:.1e}",
+            t.elapsed().as_secs_f64()
+        );
         println!("target: time per point independent of the distance from the base point (ratio within 1.5)");
         let near: Vec<f64> = (0..200).map(|k| -2.0 + 4.0 * k as f64 / 199.0).collect();
         let far: Vec<f64> = (0..200).map(|k| -20.0 + 4.0 * k as f64 / 199.0).collect();
@@ -99,12 +125,24 @@ fn main() {
         let t = Instant::now();
         let _ = eig.psi_on_line(&far, 0.0).expect("line");
         let t_far = t.elapsed().as_secs_f64();
-        println!("  [-2,2]: {t_near:.3} s, [-20,-16]: {t_far:.3} s, ratio {:.2}", t_far / t_near);
+        println!(
+            "  [-2,2]: {t_near:.3} s, [-20,-16]: {t_far:.3} s, ratio {:.2}",
+            t_far / t_near
+        );
         println!("target: 200 points at 50 digits under 20 s");
         let bits = regwave::precision::with_guard(regwave::precision::bits_for_digits(50.0));
-        let a50 = attractor::solve_levels(&laurent, 0..=0, 50).expect("attractor")[0].modulus.clone();
+        let a50 = attractor::solve_levels(&laurent, 0..=0, 50).expect("attractor")[0]
+            .modulus
+            .clone();
         let t = Instant::now();
-        let eig = Eigenfunction::new(&laurent, rug::Complex::with_val(bits, (&a50, 0)), 50.0, None, 0.3).expect("eigenfunction");
+        let eig = Eigenfunction::new(
+            &laurent,
+            rug::Complex::with_val(bits, (&a50, 0)),
+            50.0,
+            None,
+            0.3,
+        )
+        .expect("eigenfunction");
         let _ = eig.psi_on_line(&near, 0.0).expect("line");
         println!("  {:.2} s", t.elapsed().as_secs_f64());
     }
@@ -115,6 +153,11 @@ fn main() {
         let t = Instant::now();
         let terms = laurent.constant_terms(2000).expect("constant terms");
         let longest = terms.iter().map(|u| u.to_string().len()).max().unwrap_or(0);
-        println!("  {:<5} {:>6.3} s  (largest value has {} digits)", id, t.elapsed().as_secs_f64(), longest);
+        println!(
+            "  {:<5} {:>6.3} s  (largest value has {} digits)",
+            id,
+            t.elapsed().as_secs_f64(),
+            longest
+        );
     }
 }

@@ -10,13 +10,22 @@ use regwave::spectrum::{self, SpectrumOptions};
 fn main() {
     for f in catalogue::all().iter().filter(|f| f.applicable) {
         let laurent = Laurent::tempered(&f.polygon());
-        let opts = SpectrumOptions { levels: 0..=3, basis: 120, max_basis: 180, digits: 16, squeeze: 1.0 };
+        let opts = SpectrumOptions {
+            levels: 0..=3,
+            basis: 120,
+            max_basis: 180,
+            digits: 16,
+            squeeze: 1.0,
+        };
         let s = spectrum::solve(&laurent, &opts).expect("spectrum");
         let mut line = format!("{:<5}", f.id);
         for l in &s.levels {
             let a = l.value.to_f64();
             match periods::periods(&laurent, Complex64::new(a, 0.0), 15.0, None) {
-                Ok(p) => line.push_str(&format!("  a{}={:.6} nu={:.6}{:+.1e}i", l.level, a, p.nu.re, p.nu.im)),
+                Ok(p) => line.push_str(&format!(
+                    "  a{}={:.6} nu={:.6}{:+.1e}i",
+                    l.level, a, p.nu.re, p.nu.im
+                )),
                 Err(e) => line.push_str(&format!("  a{}={a:.4} error {e}", l.level)),
             }
         }

@@ -6,13 +6,20 @@ use regwave::operator::QuantumCurve;
 use rug::Complex;
 fn main() {
     let id = std::env::args().nth(1).unwrap_or_else(|| "F0".into());
-    let level: usize = std::env::args().nth(2).and_then(|s| s.parse().ok()).unwrap_or(0);
-    let l = regwave::laurent::Laurent::tempered(&regwave::catalogue::by_id(&id).expect("id").polygon());
-    let a = regwave::attractor::solve_levels(&l, level..=level, 80).expect("a")[0].modulus.clone();
+    let level: usize = std::env::args()
+        .nth(2)
+        .and_then(|s| s.parse().ok())
+        .unwrap_or(0);
+    let l =
+        regwave::laurent::Laurent::tempered(&regwave::catalogue::by_id(&id).expect("id").polygon());
+    let a = regwave::attractor::solve_levels(&l, level..=level, 80).expect("a")[0]
+        .modulus
+        .clone();
     let q = QuantumCurve::new(&l).expect("q");
     let two_pi = 2.0 * std::f64::consts::PI;
     for digits in [20u32, 40] {
-        let bits = regwave::precision::with_guard(regwave::precision::bits_for_digits(digits as f64));
+        let bits =
+            regwave::precision::with_guard(regwave::precision::bits_for_digits(digits as f64));
         let ac = Complex::with_val(bits, (&a, 0));
         let eig = Eigenfunction::new(&l, ac.clone(), digits as f64, None, 0.3).expect("eig");
         let grid = [0.37, 7.6, 10.7];
@@ -23,9 +30,15 @@ fn main() {
             let z = Complex::with_val(bits, r);
             let point = q.apply(|w: &Complex| eig.psi(w).expect("psi"), &z, &ac);
             let c = q.coefficients(&z);
-            let (m, u, d) = (main[k].clone().unwrap(), up[k].clone().unwrap(), down[k].clone().unwrap());
+            let (m, u, d) = (
+                main[k].clone().unwrap(),
+                up[k].clone().unwrap(),
+                down[k].clone().unwrap(),
+            );
             let line = c.down * d.clone() + (c.centre - ac.clone()) * m.clone() + c.up * u.clone();
-            let pd = eig.psi(&(z.clone() - Complex::with_val(bits, (0, two_pi)))).expect("psi");
+            let pd = eig
+                .psi(&(z.clone() - Complex::with_val(bits, (0, two_pi))))
+                .expect("psi");
             println!(
                 "digits {digits} r {r}: pointwise {:.2e}  lines {:.2e}  (down line vs point {:.2e})",
                 point.abs_f64() / m.abs_f64(),

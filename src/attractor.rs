@@ -29,8 +29,8 @@
 //! arXiv:1410.3382 (2014).
 
 use crate::laurent::Laurent;
-use crate::periods::{self, CyclePeriods, PeriodsError};
 use crate::numeric::CNum;
+use crate::periods::{self, CyclePeriods, PeriodsError};
 use crate::precision::{bits_for_digits, digits_for_bits, with_guard};
 use crate::recurrence::RecurrenceError;
 use num_complex::Complex64;
@@ -91,18 +91,27 @@ impl Family {
     /// [`AttractorError::ConstantTerms`].
     pub fn new(laurent: &Laurent) -> Result<Self, AttractorError> {
         let boundary_points = laurent.terms().len();
-        Ok(Family { laurent: laurent.clone(), boundary_points, constant_terms: laurent.constant_terms(200)? })
+        Ok(Family {
+            laurent: laurent.clone(),
+            boundary_points,
+            constant_terms: laurent.constant_terms(200)?,
+        })
     }
 
     fn ensure_terms(&mut self, n: usize) -> Result<(), AttractorError> {
         if self.constant_terms.len() <= n {
-            self.constant_terms = self.laurent.constant_terms(n.max(2 * self.constant_terms.len()))?;
+            self.constant_terms = self
+                .laurent
+                .constant_terms(n.max(2 * self.constant_terms.len()))?;
         }
         Ok(())
     }
 
     /// α by the series when it converges fast (a > 2 φ(1,1)), at the precision of `a`.
-    fn alpha_series(&mut self, a: &Complex) -> Result<Option<CyclePeriods<Complex>>, AttractorError> {
+    fn alpha_series(
+        &mut self,
+        a: &Complex,
+    ) -> Result<Option<CyclePeriods<Complex>>, AttractorError> {
         let s = self.laurent.coefficient_sum() as f64;
         let re = a.real().to_f64();
         if re <= 2.0 * s {
@@ -111,14 +120,22 @@ impl Family {
         let bits = a.prec().0;
         let need = (bits as f64 * std::f64::consts::LN_2 / (re / s).ln()).ceil() as usize + 16;
         self.ensure_terms(need)?;
-        Ok(Some(periods::alpha_series(&self.constant_terms, self.laurent.coefficient_sum(), a)?))
+        Ok(Some(periods::alpha_series(
+            &self.constant_terms,
+            self.laurent.coefficient_sum(),
+            a,
+        )?))
     }
 
     /// `(Re ν, d Re ν/dt, d² Re ν/dt², |Im ν|)` at a = e^t, `bits` bits.
     ///
     /// # Errors
     /// See [`AttractorError`].
-    pub fn nu(&mut self, a: &Float, bits: u32) -> Result<(Float, Float, Float, f64), AttractorError> {
+    pub fn nu(
+        &mut self,
+        a: &Float,
+        bits: u32,
+    ) -> Result<(Float, Float, Float, f64), AttractorError> {
         let ac = Complex::with_val(bits, (a, 0));
         let alpha = self.alpha_series(&ac)?;
         let p = periods::periods(&self.laurent, ac, digits_for_bits(bits) as f64, alpha)?;
@@ -126,20 +143,27 @@ impl Family {
         let slope = Float::with_val(bits, p.nu_da.real() * a);
         let a2 = Float::with_val(bits, a.square_ref());
         let curvature = Float::with_val(bits, p.nu_daa.real() * &a2) + &slope;
-        Ok((p.nu.real().clone(), slope, curvature, p.nu.imag().to_f64().abs()))
+        Ok((
+            p.nu.real().clone(),
+            slope,
+            curvature,
+            p.nu.imag().to_f64().abs(),
+        ))
     }
 
     /// `(Re ν(e^t), d Re ν/dt)` in double precision (the search phase).
     fn nu_f64(&mut self, t: f64) -> Result<(f64, f64), AttractorError> {
         let a = t.exp();
-        let alpha = self.alpha_series(&Complex::with_val(64, a))?.map(|c| CyclePeriods {
-            omega: c.omega.to_c64(),
-            regulator: c.regulator.to_c64(),
-            omega_da: c.omega_da.to_c64(),
-            omega_daa: c.omega_daa.to_c64(),
-            steps: 0,
-            error: c.error,
-        });
+        let alpha = self
+            .alpha_series(&Complex::with_val(64, a))?
+            .map(|c| CyclePeriods {
+                omega: c.omega.to_c64(),
+                regulator: c.regulator.to_c64(),
+                omega_da: c.omega_da.to_c64(),
+                omega_daa: c.omega_daa.to_c64(),
+                steps: 0,
+                error: c.error,
+            });
         let p = periods::periods(&self.laurent, Complex64::new(a, 0.0), 15.0, alpha)?;
         Ok((p.nu.re, p.nu_da.re * a))
     }
@@ -179,7 +203,11 @@ impl Family {
         while flo.signum() == fhi.signum() {
             tries += 1;
             if tries > 60 {
-                return Err(AttractorError::NoBracket { target: k, last: flo + target, log_a: lo });
+                return Err(AttractorError::NoBracket {
+                    target: k,
+                    last: flo + target,
+                    log_a: lo,
+                });
             }
             if flo > 0.0 {
                 hi = lo;
@@ -208,19 +236,30 @@ impl Family {
                 hi = t;
             }
             let newton = t - f / dv;
-            let next = if dv > 0.0 && newton > lo.min(hi) && newton < lo.max(hi) { newton } else { 0.5 * (lo + hi) };
+            let next = if dv > 0.0 && newton > lo.min(hi) && newton < lo.max(hi) {
+                newton
+            } else {
+                0.5 * (lo + hi)
+            };
             if (next - t).abs() < 1e-15 * t.abs() {
                 return Ok(next);
             }
             t = next;
         }
-        let _ = fhi;
-        Err(AttractorError::NoConvergence { target: k, step: hi - lo })
+        Err(AttractorError::NoConvergence {
+            target: k,
+            step: hi - lo,
+        })
     }
 
     /// Halley refinement of Re ν(e^t) = k at `bits` from the approximation t0 (cubic
     /// convergence, exact first and second derivatives); returns (t, |residual|, |Im ν|).
-    fn root_mp(&mut self, k: i64, t0: &Float, bits: u32) -> Result<(Float, f64, f64), AttractorError> {
+    fn root_mp(
+        &mut self,
+        k: i64,
+        t0: &Float,
+        bits: u32,
+    ) -> Result<(Float, f64, f64), AttractorError> {
         let mut t = Float::with_val(bits, t0);
         let tol = 2f64.powi(-(bits as i32) + 8);
         let mut last = f64::INFINITY;
@@ -236,12 +275,17 @@ impl Family {
             let s = step.to_f64().abs();
             // Cubic convergence from a start within ~1e-13 of the root, where ν is smooth on
             // the scale 1: the error left after a step s is O(s³).
-            if s <= tol * t.to_f64().abs() || (s < 1e-8 && 100.0 * s * s * s <= tol * t.to_f64().abs()) {
+            if s <= tol * t.to_f64().abs()
+                || (s < 1e-8 && 100.0 * s * s * s <= tol * t.to_f64().abs())
+            {
                 return Ok((t, f.to_f64().abs(), im));
             }
             last = s;
         }
-        Err(AttractorError::NoConvergence { target: k, step: last })
+        Err(AttractorError::NoConvergence {
+            target: k,
+            step: last,
+        })
     }
 }
 
@@ -249,8 +293,17 @@ impl Family {
 ///
 /// # Errors
 /// See [`AttractorError`].
-pub fn solve_levels(laurent: &Laurent, levels: std::ops::RangeInclusive<usize>, digits: u32) -> Result<Vec<Attractor>, AttractorError> {
-    solve_levels_at(laurent, levels, digits, with_guard(bits_for_digits(digits as f64)))
+pub fn solve_levels(
+    laurent: &Laurent,
+    levels: std::ops::RangeInclusive<usize>,
+    digits: u32,
+) -> Result<Vec<Attractor>, AttractorError> {
+    solve_levels_at(
+        laurent,
+        levels,
+        digits,
+        with_guard(bits_for_digits(digits as f64)),
+    )
 }
 
 /// As [`solve_levels`] at an explicit working precision `bits` (the confirming solve uses more).
@@ -294,15 +347,25 @@ pub fn solve_levels_at(
         .into_par_iter()
         .map(|(level, k, t)| {
             let mut fam = fam.clone();
-            let (t_work, residual, imaginary_part) = fam.root_mp(k, &Float::with_val(bits, t), bits)?;
+            let (t_work, residual, imaginary_part) =
+                fam.root_mp(k, &Float::with_val(bits, t), bits)?;
             if imaginary_part > 1e-6 {
-                return Err(AttractorError::NotReal { a: t.exp(), im: imaginary_part });
+                return Err(AttractorError::NotReal {
+                    a: t.exp(),
+                    im: imaginary_part,
+                });
             }
             let (t_check, _, _) = fam.root_mp(k, &t_work, check_bits)?;
             let a = Float::with_val(bits, t_work.exp_ref());
             let a_check = Float::with_val(check_bits, t_check.exp_ref());
-            let rel = (Float::with_val(check_bits, &a_check - &a) / &a_check).to_f64().abs();
-            let agreed = if rel == 0.0 { digits as f64 } else { -rel.log10() };
+            let rel = (Float::with_val(check_bits, &a_check - &a) / &a_check)
+                .to_f64()
+                .abs();
+            let agreed = if rel == 0.0 {
+                digits as f64
+            } else {
+                -rel.log10()
+            };
             Ok(Attractor {
                 level,
                 nu: k,

@@ -89,7 +89,15 @@ pub struct PathIntegrals<T> {
 
 impl<T: CNum> PathIntegrals<T> {
     fn zero(like: &T) -> Self {
-        PathIntegrals { omega: like.int_like(0), eta: like.int_like(0), omega_da: like.int_like(0), omega_daa: like.int_like(0), dz: like.int_like(0), error: 0.0, steps: 0 }
+        PathIntegrals {
+            omega: like.int_like(0),
+            eta: like.int_like(0),
+            omega_da: like.int_like(0),
+            omega_daa: like.int_like(0),
+            dz: like.int_like(0),
+            error: 0.0,
+            steps: 0,
+        }
     }
 
     /// Sum of two consecutive pieces.
@@ -132,7 +140,10 @@ impl<T: CNum> LaurentT<T> {
                 coeffs[i + j] = coeffs[i + j].clone() + a.clone() * b.clone();
             }
         }
-        LaurentT { low: self.low + other.low, coeffs }
+        LaurentT {
+            low: self.low + other.low,
+            coeffs,
+        }
     }
 
     fn sub(&self, other: &Self) -> Self {
@@ -187,11 +198,23 @@ impl<T: CNum> Curve<T> {
     /// # Errors
     /// [`CoverError::Degenerate`] when φ is not in strip form or A or C vanishes identically.
     pub fn new(laurent: &Laurent, a: T) -> Result<Self, CoverError> {
-        let parts = laurent.strip_parts().map_err(|e| CoverError::Degenerate { reason: e.to_string() })?;
+        let parts = laurent.strip_parts().map_err(|e| CoverError::Degenerate {
+            reason: e.to_string(),
+        })?;
         if parts.a.terms.is_empty() || parts.c.terms.is_empty() {
-            return Err(CoverError::Degenerate { reason: "A or C vanishes identically".into() });
+            return Err(CoverError::Degenerate {
+                reason: "A or C vanishes identically".into(),
+            });
         }
-        let exps = || parts.a.terms.iter().chain(&parts.b.terms).chain(&parts.c.terms).map(|t| t.0);
+        let exps = || {
+            parts
+                .a
+                .terms
+                .iter()
+                .chain(&parts.b.terms)
+                .chain(&parts.c.terms)
+                .map(|t| t.0)
+        };
         let lowest = exps().min().unwrap_or(0).min(-1);
         let highest = exps().max().unwrap_or(0).max(1);
         Ok(Curve {
@@ -222,7 +245,11 @@ impl<T: CNum> Curve<T> {
 
     /// `(A(x), B(x) + a, C(x))`.
     pub fn coefficients(&self, x: &T) -> (T, T, T) {
-        (self.parts.a.eval(x), self.parts.b.eval(x) + self.modulus.clone(), self.parts.c.eval(x))
+        (
+            self.parts.a.eval(x),
+            self.parts.b.eval(x) + self.modulus.clone(),
+            self.parts.c.eval(x),
+        )
     }
 
     /// Everything the continuation needs at one z, with one exponential and the powers of x by
@@ -275,7 +302,11 @@ impl<T: CNum> Curve<T> {
         let disc = (f.b.clone() * f.b.clone() - f.x.int_like(4) * f.a.clone() * f.c.clone()).sqrt();
         let plus = -f.b.clone() + disc.clone();
         let minus = -f.b.clone() - disc;
-        let big_num = if plus.abs_f64() >= minus.abs_f64() { plus } else { minus };
+        let big_num = if plus.abs_f64() >= minus.abs_f64() {
+            plus
+        } else {
+            minus
+        };
         let y1 = big_num / (f.x.int_like(2) * f.a.clone());
         let y2 = f.c.clone() / (f.a.clone() * y1.clone());
         [y1, y2]
@@ -307,7 +338,10 @@ impl<T: CNum> Curve<T> {
         let c = LaurentT::from_univariate(&self.parts.c, like);
         let k0 = (-b.low) as usize;
         b.coeffs[k0] = b.coeffs[k0].clone() + self.modulus.clone();
-        let four = LaurentT { low: 0, coeffs: vec![like.int_like(4)] };
+        let four = LaurentT {
+            low: 0,
+            coeffs: vec![like.int_like(4)],
+        };
         let disc = b.mul(&b).sub(&four.mul(&a).mul(&c));
         let (poly, shift) = disc.polynomial();
         (poly, -shift)
@@ -320,7 +354,9 @@ impl<T: CNum> Curve<T> {
     pub fn branch_points_x(&self) -> Result<Vec<T>, CoverError> {
         let (poly, _) = self.discriminant_polynomial();
         if poly.len() < 2 {
-            return Err(CoverError::Degenerate { reason: "the discriminant has no zeros".into() });
+            return Err(CoverError::Degenerate {
+                reason: "the discriminant has no zeros".into(),
+            });
         }
         polynomial_roots(&poly)
     }
@@ -336,12 +372,15 @@ impl<T: CNum> Curve<T> {
             let low = u.terms.first().map(|t| t.0).unwrap_or(0);
             let l = u.terms.len() - 1;
             let binomial_edge = u.terms.iter().enumerate().all(|(j, &(k, c))| {
-                k == low + j as i64 && c == (0..j).fold(1i64, |acc, i| acc * (l - i) as i64 / (i + 1) as i64)
+                k == low + j as i64
+                    && c == (0..j).fold(1i64, |acc, i| acc * (l - i) as i64 / (i + 1) as i64)
             });
             if binomial_edge {
                 Ok(l)
             } else {
-                Err(CoverError::Degenerate { reason: format!("{} is not x^k (1+x)^l", u.render("x")) })
+                Err(CoverError::Degenerate {
+                    reason: format!("{} is not x^k (1+x)^l", u.render("x")),
+                })
             }
         };
         Ok((order(&self.parts.a)?, order(&self.parts.c)?))
@@ -362,11 +401,17 @@ impl<T: CNum> Curve<T> {
             if z.im_f64() < -std::f64::consts::PI + 1e-9 {
                 z = z + two_pi_i.clone();
             }
-            out.push(Singular { z, kind: SingularKind::Branch });
+            out.push(Singular {
+                z,
+                kind: SingularKind::Branch,
+            });
         }
         let (la, lc) = self.puncture_orders()?;
         if la + lc > 0 {
-            out.push(Singular { z: self.modulus.int_like(0), kind: SingularKind::Puncture });
+            out.push(Singular {
+                z: self.modulus.int_like(0),
+                kind: SingularKind::Puncture,
+            });
         }
         Ok(out)
     }
@@ -501,7 +546,16 @@ pub fn polynomial_roots<T: CNum>(coeffs: &[T]) -> Result<Vec<T>, CoverError> {
 /// Starting points on circles from the Newton polygon of a monic polynomial.
 fn newton_polygon_guesses<T: CNum>(monic: &[T], prec: u32) -> Vec<T> {
     let n = monic.len() - 1;
-    let logs: Vec<f64> = monic.iter().map(|c| if c.abs_f64() > 0.0 { c.abs_f64().ln() } else { f64::NEG_INFINITY }).collect();
+    let logs: Vec<f64> = monic
+        .iter()
+        .map(|c| {
+            if c.abs_f64() > 0.0 {
+                c.abs_f64().ln()
+            } else {
+                f64::NEG_INFINITY
+            }
+        })
+        .collect();
     // Upper convex hull of (k, log|c_k|), k = 0..n.
     let mut hull: Vec<usize> = Vec::new();
     for k in 0..=n {
@@ -510,7 +564,8 @@ fn newton_polygon_guesses<T: CNum>(monic: &[T], prec: u32) -> Vec<T> {
         }
         while hull.len() >= 2 {
             let (i, j) = (hull[hull.len() - 2], hull[hull.len() - 1]);
-            let cross = (j as f64 - i as f64) * (logs[k] - logs[i]) - (logs[j] - logs[i]) * (k as f64 - i as f64);
+            let cross = (j as f64 - i as f64) * (logs[k] - logs[i])
+                - (logs[j] - logs[i]) * (k as f64 - i as f64);
             if cross >= 0.0 {
                 hull.pop();
             } else {
@@ -527,7 +582,11 @@ fn newton_polygon_guesses<T: CNum>(monic: &[T], prec: u32) -> Vec<T> {
         let radius = ((logs[i] - logs[j]) / m as f64).exp();
         for q in 0..m {
             let angle = 2.0 * std::f64::consts::PI * q as f64 / m as f64 + 0.4 + 0.7 * count as f64;
-            out.push(T::from_f64s(radius * angle.cos(), radius * angle.sin(), prec));
+            out.push(T::from_f64s(
+                radius * angle.cos(),
+                radius * angle.sin(),
+                prec,
+            ));
         }
         count += 1;
     }
@@ -569,7 +628,13 @@ pub struct March {
 impl March {
     /// Settings for `digits` decimal digits.
     pub fn for_digits(digits: f64) -> Self {
-        March { nodes: (0.66 * digits + 6.0).ceil() as usize, digits, step_factor: STEP_FACTOR, max_step: MAX_STEP, min_distance: 1e-30 }
+        March {
+            nodes: (0.66 * digits + 6.0).ceil() as usize,
+            digits,
+            step_factor: STEP_FACTOR,
+            max_step: MAX_STEP,
+            min_distance: 1e-30,
+        }
     }
 }
 
@@ -585,8 +650,15 @@ pub fn continue_along<T: CNum>(
     path: &[T],
     march: &March,
 ) -> Result<(Point<T>, PathIntegrals<T>), CoverError> {
-    let sing: Vec<[f64; 2]> = singular.iter().map(|s| [s.z.re_f64(), s.z.im_f64()]).collect();
-    let dist = |z: &T| sing.iter().map(|s| periodic_distance([z.re_f64(), z.im_f64()], *s)).fold(f64::INFINITY, f64::min);
+    let sing: Vec<[f64; 2]> = singular
+        .iter()
+        .map(|s| [s.z.re_f64(), s.z.im_f64()])
+        .collect();
+    let dist = |z: &T| {
+        sing.iter()
+            .map(|s| periodic_distance([z.re_f64(), z.im_f64()], *s))
+            .fold(f64::INFINITY, f64::min)
+    };
     let mut rules: Vec<Option<Vec<(T, T)>>> = vec![None; march.nodes + 8];
     let mut here = start.clone();
     let mut acc = PathIntegrals::zero(&start.z);
@@ -601,24 +673,44 @@ pub fn continue_along<T: CNum>(
             }
             let d = dist(&here.z);
             // Below the working precision relative to |z| a step could not even move z.
-            let floor = march.min_distance.max(2f64.powi(16 - start.z.prec() as i32) * (1.0 + here.z.abs_f64()));
+            let floor = march
+                .min_distance
+                .max(2f64.powi(16 - start.z.prec() as i32) * (1.0 + here.z.abs_f64()));
             if d < floor {
-                return Err(CoverError::ThroughSingularPoint { z: format!("{:?}", here.z.to_c64()), distance: d });
+                return Err(CoverError::ThroughSingularPoint {
+                    z: format!("{:?}", here.z.to_c64()),
+                    distance: d,
+                });
             }
             let h = (march.step_factor * d).min(march.max_step);
-            let end = if rem <= h * 1.0000001 { target.clone() } else { here.z.clone() + remaining * T::from_f64s(h / rem, 0.0, start.z.prec()) };
+            let end = if rem <= h * 1.0000001 {
+                target.clone()
+            } else {
+                here.z.clone() + remaining * T::from_f64s(h / rem, 0.0, start.z.prec())
+            };
             let half = (end.clone() - here.z.clone()) / two.clone();
             let mid = (end.clone() + here.z.clone()) / two.clone();
-            let rho = bernstein_parameter([mid.re_f64(), mid.im_f64()], [half.re_f64(), half.im_f64()], &sing);
-            let nodes = ((march.digits * std::f64::consts::LN_10 / (2.0 * rho.ln())).ceil() as usize + 4).div_ceil(4) * 4;
+            let rho = bernstein_parameter(
+                [mid.re_f64(), mid.im_f64()],
+                [half.re_f64(), half.im_f64()],
+                &sing,
+            );
+            let nodes =
+                ((march.digits * std::f64::consts::LN_10 / (2.0 * rho.ln())).ceil() as usize + 4)
+                    .div_ceil(4)
+                    * 4;
             let nodes = nodes.clamp(8, march.nodes.div_ceil(4) * 4);
-            let rule = rules[nodes].get_or_insert_with(|| quad::rule_for(nodes, &start.z)).clone();
+            let rule = rules[nodes]
+                .get_or_insert_with(|| quad::rule_for(nodes, &start.z))
+                .clone();
             let mut y = here.y.clone();
             let mut z_prev = here.z.clone();
             let start_fiber = curve.fiber(&z_prev);
             let inv_y0 = y.int_like(1) / y.clone();
             let d0 = start_fiber.a.clone() * y.clone() - start_fiber.c.clone() * inv_y0.clone();
-            let mut slope = -((start_fiber.da.clone() * y.clone() + start_fiber.db.clone() + start_fiber.dc.clone() * inv_y0)
+            let mut slope = -((start_fiber.da.clone() * y.clone()
+                + start_fiber.db.clone()
+                + start_fiber.dc.clone() * inv_y0)
                 / d0);
             let mut sum_omega = start.z.int_like(0);
             let mut sum_eta = start.z.int_like(0);
@@ -634,7 +726,8 @@ pub fn continue_along<T: CNum>(
                 let ay = fib.a.clone() * y.clone();
                 let c_y = fib.c.clone() * inv_y.clone();
                 let inv_d = y.int_like(1) / (ay.clone() - c_y.clone());
-                slope = -((fib.da.clone() * y.clone() + fib.db.clone() + fib.dc.clone() * inv_y) * inv_d.clone());
+                slope = -((fib.da.clone() * y.clone() + fib.db.clone() + fib.dc.clone() * inv_y)
+                    * inv_d.clone());
                 let eta = z.clone() * slope.clone();
                 size = size.max(inv_d.abs_f64()).max(eta.abs_f64());
                 // ∂_a(1/D) = (A y + C/y)/D³ and ∂²_a(1/D) = 3(A y + C/y)²/D⁵ − 1/D³
@@ -701,7 +794,10 @@ fn follow<T: CNum>(fib: &Fiber<T>, z: &T, z_prev: &T, y: &T, slope: &T) -> Resul
     let scale = predicted.abs_f64().max(1e-300);
     let gap = far / near.max(scale * 2f64.powi(-(z.prec() as i32) + 8));
     if gap < 4.0 {
-        return Err(CoverError::SheetAmbiguous { z: format!("{:?}", z.to_c64()), gap });
+        return Err(CoverError::SheetAmbiguous {
+            z: format!("{:?}", z.to_c64()),
+            gap,
+        });
     }
     Ok(pick)
 }
@@ -724,7 +820,14 @@ mod tests {
         let [_, small] = curve.roots(&z0);
         let two_pi_i = a.int_like(2) * a.pi_like() * a.i_like();
         let path = vec![z0.clone(), z0.clone() - two_pi_i];
-        let (_, ints) = continue_along(&curve, &sing, &Point { z: z0, y: small }, &path, &March::for_digits(digits)).unwrap();
+        let (_, ints) = continue_along(
+            &curve,
+            &sing,
+            &Point { z: z0, y: small },
+            &path,
+            &March::for_digits(digits),
+        )
+        .unwrap();
         ints
     }
 
@@ -752,16 +855,52 @@ mod tests {
         // Monodromy of √Δ around a simple zero: the continued root is ιy = C/(A y).
         let curve = Curve::new(&f0(), Complex64::new(20.0, 0.0)).unwrap();
         let sing = curve.singular_points().unwrap();
-        let b = sing.iter().find(|s| s.kind == SingularKind::Branch).unwrap().z;
-        let d = sing.iter().filter(|s| (s.z - b).norm() > 1e-9).map(|s| (s.z - b).norm()).fold(f64::INFINITY, f64::min);
-        let circle: Vec<Complex64> = circle_around([b.re, b.im], 0.3 * d, 12).iter().map(|p| Complex64::new(p[0], p[1])).collect();
+        let b = sing
+            .iter()
+            .find(|s| s.kind == SingularKind::Branch)
+            .unwrap()
+            .z;
+        let d = sing
+            .iter()
+            .filter(|s| (s.z - b).norm() > 1e-9)
+            .map(|s| (s.z - b).norm())
+            .fold(f64::INFINITY, f64::min);
+        let circle: Vec<Complex64> = circle_around([b.re, b.im], 0.3 * d, 12)
+            .iter()
+            .map(|p| Complex64::new(p[0], p[1]))
+            .collect();
         let [y0, y1] = curve.roots(&circle[0]);
-        let (end, _) = continue_along(&curve, &sing, &Point { z: circle[0], y: y0 }, &circle, &March::for_digits(15.0)).unwrap();
-        assert!((end.y - y1).norm() < 1e-10 * y1.norm(), "{} vs {}", end.y, y1);
+        let (end, _) = continue_along(
+            &curve,
+            &sing,
+            &Point {
+                z: circle[0],
+                y: y0,
+            },
+            &circle,
+            &March::for_digits(15.0),
+        )
+        .unwrap();
+        assert!(
+            (end.y - y1).norm() < 1e-10 * y1.norm(),
+            "{} vs {}",
+            end.y,
+            y1
+        );
         // Twice around: back on the first sheet.
         let mut twice = circle.clone();
         twice.extend(circle.iter().skip(1));
-        let (end, _) = continue_along(&curve, &sing, &Point { z: circle[0], y: y0 }, &twice, &March::for_digits(15.0)).unwrap();
+        let (end, _) = continue_along(
+            &curve,
+            &sing,
+            &Point {
+                z: circle[0],
+                y: y0,
+            },
+            &twice,
+            &March::for_digits(15.0),
+        )
+        .unwrap();
         assert!((end.y - y0).norm() < 1e-10 * y0.norm());
     }
 
@@ -770,12 +909,29 @@ mod tests {
         // Typed error, no panic, no silent sheet guess.
         let curve = Curve::new(&f0(), Complex64::new(20.0, 0.0)).unwrap();
         let sing = curve.singular_points().unwrap();
-        let b = sing.iter().find(|s| s.kind == SingularKind::Branch).unwrap().z;
+        let b = sing
+            .iter()
+            .find(|s| s.kind == SingularKind::Branch)
+            .unwrap()
+            .z;
         let start = b - Complex64::new(0.5, 0.0);
         let path = vec![start, b + Complex64::new(0.5, 0.0)];
         let [y0, _] = curve.roots(&start);
-        let r = continue_along(&curve, &sing, &Point { z: start, y: y0 }, &path, &March::for_digits(15.0));
-        assert!(matches!(r, Err(CoverError::ThroughSingularPoint { .. }) | Err(CoverError::SheetAmbiguous { .. })), "{r:?}");
+        let r = continue_along(
+            &curve,
+            &sing,
+            &Point { z: start, y: y0 },
+            &path,
+            &March::for_digits(15.0),
+        );
+        assert!(
+            matches!(
+                r,
+                Err(CoverError::ThroughSingularPoint { .. })
+                    | Err(CoverError::SheetAmbiguous { .. })
+            ),
+            "{r:?}"
+        );
     }
 
     fn agm_f64(mut a: f64, mut b: f64) -> f64 {

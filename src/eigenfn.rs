@@ -79,7 +79,13 @@ impl<T: CNum> Eigenfunction<T> {
     ///
     /// # Errors
     /// See [`EigenError`].
-    pub fn new(laurent: &Laurent, a: T, digits: f64, spine: Option<f64>, base_re: f64) -> Result<Self, EigenError> {
+    pub fn new(
+        laurent: &Laurent,
+        a: T,
+        digits: f64,
+        spine: Option<f64>,
+        base_re: f64,
+    ) -> Result<Self, EigenError> {
         let curve = Curve::new(laurent, a)?;
         let singular = curve.singular_points()?;
         let march = March::for_digits(digits);
@@ -90,7 +96,15 @@ impl<T: CNum> Eigenfunction<T> {
         let z0 = T::from_f64s(base_re, c, like.prec());
         let [y0, _] = curve.roots(&z0);
         let base = Point { z: z0, y: y0 };
-        let mut eig = Eigenfunction { curve, singular, lambda, spine: c, base: base.clone(), base_other: (base.clone(), like.int_like(0)), march };
+        let mut eig = Eigenfunction {
+            curve,
+            singular,
+            lambda,
+            spine: c,
+            base: base.clone(),
+            base_other: (base.clone(), like.int_like(0)),
+            march,
+        };
         eig.base_other = eig.other_sheet_base()?;
         Ok(eig)
     }
@@ -100,6 +114,18 @@ impl<T: CNum> Eigenfunction<T> {
         &self.curve
     }
 
+    /// The exponent integral `∫ (z d log y − λ ω)` of a path piece.
+    fn exponent(&self, ints: &crate::cover::PathIntegrals<T>) -> T {
+        ints.eta.clone() - self.lambda.clone() * ints.omega.clone()
+    }
+
+    /// `χ = exp(−e/(2πi))` for an accumulated exponent e.
+    fn chi(&self, e: &T) -> T {
+        let like = &self.lambda;
+        let two_pi_i = like.int_like(2) * like.pi_like() * like.i_like();
+        (-(e.clone() / two_pi_i)).exp()
+    }
+
     /// Continues z̃₀ once around the branch point nearest to z₀ and back: ι̃z̃₀ and the exponent
     /// integral `∫ (z d log y − λ ω)` along that loop.
     fn other_sheet_base(&self) -> Result<(Point<T>, T), EigenError> {
@@ -107,7 +133,11 @@ impl<T: CNum> Eigenfunction<T> {
         let two_pi = 2.0 * std::f64::consts::PI;
         // Nearest branch point (any 2πi translate) to z₀.
         let mut best: Option<([f64; 2], f64)> = None;
-        for s in self.singular.iter().filter(|s| s.kind == SingularKind::Branch) {
+        for s in self
+            .singular
+            .iter()
+            .filter(|s| s.kind == SingularKind::Branch)
+        {
             let p = [s.z.re_f64(), s.z.im_f64()];
             let k = ((z0[1] - p[1]) / two_pi).round();
             for dk in [-1.0, 0.0, 1.0] {
@@ -142,7 +172,8 @@ impl<T: CNum> Eigenfunction<T> {
             path.push(T::from_f64s(b[0] + r * t.cos(), b[1] + r * t.sin(), prec));
         }
         path.push(self.base.z.clone());
-        let (end, ints) = continue_along(&self.curve, &self.singular, &self.base, &path, &self.march)?;
+        let (end, ints) =
+            continue_along(&self.curve, &self.singular, &self.base, &path, &self.march)?;
         let exponent = ints.eta - self.lambda.clone() * ints.omega;
         Ok((end, exponent))
     }
@@ -164,16 +195,21 @@ impl<T: CNum> Eigenfunction<T> {
     /// See [`crate::cover::continue_along`].
     pub fn sheets_along(&self, path: &[T]) -> Result<SheetValues<T>, EigenError> {
         let (p1, i1) = continue_along(&self.curve, &self.singular, &self.base, path, &self.march)?;
-        let (p2, i2) = continue_along(&self.curve, &self.singular, &self.base_other.0, path, &self.march)?;
-        let like = &self.lambda;
-        let two_pi_i = like.int_like(2) * like.pi_like() * like.i_like();
-        let e1 = i1.eta - self.lambda.clone() * i1.omega;
-        let e2 = self.base_other.1.clone() + i2.eta - self.lambda.clone() * i2.omega;
-        let chi = (-(e1 / two_pi_i.clone())).exp();
-        let chi_other = (-(e2 / two_pi_i)).exp();
-        let d = self.curve.d(&p1.z, &p1.y);
-        let _ = p2;
-        Ok(SheetValues { chi, chi_other, d })
+        let (p2, i2) = continue_along(
+            &self.curve,
+            &self.singular,
+            &self.base_other.0,
+            path,
+            &self.march,
+        )?;
+        let chi = self.chi(&self.exponent(&i1));
+        let chi_other = self.chi(&(self.base_other.1.clone() + self.exponent(&i2)));
+        let _ = p2; // the other sheet's end point is ι̃ of p1; D is read on p1
+        Ok(SheetValues {
+            chi,
+            chi_other,
+            d: self.curve.d(&p1.z, &p1.y),
+        })
     }
 
     /// ψ at every vertex of a route starting at the base point (both sheets continued along it):
@@ -184,17 +220,16 @@ impl<T: CNum> Eigenfunction<T> {
     /// See [`crate::cover::continue_along`].
     pub fn psi_along(&self, path: &[T]) -> Result<Vec<T>, EigenError> {
         let like = &self.lambda;
-        let two_pi_i = like.int_like(2) * like.pi_like() * like.i_like();
         let (mut a1, mut a2) = (self.base.clone(), self.base_other.0.clone());
         let (mut e1, mut e2) = (like.int_like(0), self.base_other.1.clone());
         let mut out = Vec::with_capacity(path.len());
         for w in path.windows(2) {
             let (p1, i1) = continue_along(&self.curve, &self.singular, &a1, w, &self.march)?;
             let (p2, i2) = continue_along(&self.curve, &self.singular, &a2, w, &self.march)?;
-            e1 = e1 + i1.eta - self.lambda.clone() * i1.omega;
-            e2 = e2 + i2.eta - self.lambda.clone() * i2.omega;
-            let chi = (-(e1.clone() / two_pi_i.clone())).exp();
-            let chi_other = (-(e2.clone() / two_pi_i.clone())).exp();
+            e1 = e1 + self.exponent(&i1);
+            e2 = e2 + self.exponent(&i2);
+            let chi = self.chi(&e1);
+            let chi_other = self.chi(&e2);
             out.push((chi - chi_other) / self.curve.d(&p1.z, &p1.y));
             a1 = p1;
             a2 = p2;
@@ -270,19 +305,30 @@ impl<T: CNum> Eigenfunction<T> {
     ///
     /// # Errors
     /// See [`Eigenfunction::psi_on_line`].
-    pub fn psi_on_line_with_loss(&self, grid: &[f64], im: f64) -> Result<(Vec<Option<T>>, f64), EigenError> {
+    pub fn psi_on_line_with_loss(
+        &self,
+        grid: &[f64],
+        im: f64,
+    ) -> Result<(Vec<Option<T>>, f64), EigenError> {
         // Loss relative to the scale of ψ on the line (zeros of ψ are not losses).
         let (mut largest_term, mut largest_value): (f64, f64) = (0.0, 0.0);
         let prec = self.lambda.prec();
         let two_pi = 2.0 * std::f64::consts::PI;
-        let spine = if im < -1e-9 { self.spine - two_pi } else { self.spine };
+        let spine = if im < -1e-9 {
+            self.spine - two_pi
+        } else {
+            self.spine
+        };
         let like = &self.lambda;
         let two_pi_i = like.int_like(2) * like.pi_like() * like.i_like();
-        let exponent = |ints: &crate::cover::PathIntegrals<T>| ints.eta.clone() - self.lambda.clone() * ints.omega.clone();
         // A line at a multiple of 2π is placed at that multiple computed at the working precision
         // (an f64 2π would cap the eigen-equation residual near 1e-13).
         let periods = (im / two_pi).round();
-        let line_im = if (im - periods * two_pi).abs() < 1e-9 { two_pi_i.clone() * like.int_like(periods as i64) } else { T::from_f64s(0.0, im, prec) };
+        let line_im = if (im - periods * two_pi).abs() < 1e-9 {
+            two_pi_i.clone() * like.int_like(periods as i64)
+        } else {
+            T::from_f64s(0.0, im, prec)
+        };
         // Spine start: the base point, or its vertical translate onto the lower spine.
         let (mut s1, mut e1) = (self.base.clone(), like.int_like(0));
         let (mut s2, mut e2) = (self.base_other.0.clone(), self.base_other.1.clone());
@@ -291,8 +337,8 @@ impl<T: CNum> Eigenfunction<T> {
             let path = [self.base.z.clone(), start];
             let (p1, i1) = continue_along(&self.curve, &self.singular, &s1, &path, &self.march)?;
             let (p2, i2) = continue_along(&self.curve, &self.singular, &s2, &path, &self.march)?;
-            e1 = e1 + exponent(&i1);
-            e2 = e2 + exponent(&i2);
+            e1 = e1 + self.exponent(&i1);
+            e2 = e2 + self.exponent(&i2);
             s1 = p1;
             s2 = p2;
         }
@@ -300,8 +346,17 @@ impl<T: CNum> Eigenfunction<T> {
         let mut out: Vec<Option<T>> = vec![None; grid.len()];
         let mut order: Vec<usize> = (0..grid.len()).collect();
         order.sort_by(|&i, &j| grid[i].total_cmp(&grid[j]));
-        let right: Vec<usize> = order.iter().copied().filter(|&i| grid[i] >= base_re).collect();
-        let left: Vec<usize> = order.iter().rev().copied().filter(|&i| grid[i] < base_re).collect();
+        let right: Vec<usize> = order
+            .iter()
+            .copied()
+            .filter(|&i| grid[i] >= base_re)
+            .collect();
+        let left: Vec<usize> = order
+            .iter()
+            .rev()
+            .copied()
+            .filter(|&i| grid[i] < base_re)
+            .collect();
         for side in [right, left] {
             let (mut a1, mut f1, mut a2, mut f2) = (s1.clone(), e1.clone(), s2.clone(), e2.clone());
             for i in side {
@@ -312,10 +367,12 @@ impl<T: CNum> Eigenfunction<T> {
                 }
                 let on_spine = T::from_f64s(r, spine, prec);
                 let along = [a1.z.clone(), on_spine.clone()];
-                let (p1, i1) = continue_along(&self.curve, &self.singular, &a1, &along, &self.march)?;
-                let (p2, i2) = continue_along(&self.curve, &self.singular, &a2, &along, &self.march)?;
-                f1 = f1 + exponent(&i1);
-                f2 = f2 + exponent(&i2);
+                let (p1, i1) =
+                    continue_along(&self.curve, &self.singular, &a1, &along, &self.march)?;
+                let (p2, i2) =
+                    continue_along(&self.curve, &self.singular, &a2, &along, &self.march)?;
+                f1 = f1 + self.exponent(&i1);
+                f2 = f2 + self.exponent(&i2);
                 a1 = p1;
                 a2 = p2;
                 if self.distance_to_singular(&z) < NEAR_SINGULAR {
@@ -323,10 +380,11 @@ impl<T: CNum> Eigenfunction<T> {
                     continue;
                 }
                 let down = self.vertical_route(on_spine, &z, r, spine, im);
-                let (q1, j1) = continue_along(&self.curve, &self.singular, &a1, &down, &self.march)?;
+                let (q1, j1) =
+                    continue_along(&self.curve, &self.singular, &a1, &down, &self.march)?;
                 let (_, j2) = continue_along(&self.curve, &self.singular, &a2, &down, &self.march)?;
-                let chi = (-((f1.clone() + exponent(&j1)) / two_pi_i.clone())).exp();
-                let chi_other = (-((f2.clone() + exponent(&j2)) / two_pi_i.clone())).exp();
+                let chi = self.chi(&(f1.clone() + self.exponent(&j1)));
+                let chi_other = self.chi(&(f2.clone() + self.exponent(&j2)));
                 let d = self.curve.d(&q1.z, &q1.y);
                 let diff = chi.clone() - chi_other.clone();
                 let big = chi.abs_f64().max(chi_other.abs_f64()) / d.abs_f64();
@@ -336,7 +394,11 @@ impl<T: CNum> Eigenfunction<T> {
                 out[i] = Some(value);
             }
         }
-        let loss = if largest_value > 0.0 { (largest_term / largest_value).log10().max(0.0) } else { 0.0 };
+        let loss = if largest_value > 0.0 {
+            (largest_term / largest_value).log10().max(0.0)
+        } else {
+            0.0
+        };
         Ok((out, loss))
     }
 
@@ -352,7 +414,13 @@ impl<T: CNum> Eigenfunction<T> {
             let (sr, si) = (s.z.re_f64(), s.z.im_f64());
             for j in -2..=2 {
                 let y = si + j as f64 * two_pi;
-                let dy = if y < lo { lo - y } else if y > hi { y - hi } else { 0.0 };
+                let dy = if y < lo {
+                    lo - y
+                } else if y > hi {
+                    y - hi
+                } else {
+                    0.0
+                };
                 let d = ((sr - r).powi(2) + dy * dy).sqrt();
                 if d < 2.0 * NEAR_SINGULAR && (y - im).abs() > 1e-12 {
                     blocking = Some(sr);
@@ -362,7 +430,11 @@ impl<T: CNum> Eigenfunction<T> {
         match blocking {
             None => vec![on_spine, z.clone()],
             Some(sr) => {
-                let shift = if r >= sr { 3.0 * NEAR_SINGULAR } else { -3.0 * NEAR_SINGULAR };
+                let shift = if r >= sr {
+                    3.0 * NEAR_SINGULAR
+                } else {
+                    -3.0 * NEAR_SINGULAR
+                };
                 vec![
                     on_spine,
                     T::from_f64s(r + shift, spine, prec),
@@ -376,7 +448,11 @@ impl<T: CNum> Eigenfunction<T> {
     /// Distance from z to the nearest pole of ψ (the punctures 2πik, k ≠ 0, when A or C vanishes
     /// at x = −1); infinite when there are none.
     pub fn distance_to_pole(&self, z: &T) -> f64 {
-        if !self.singular.iter().any(|s| s.kind == SingularKind::Puncture) {
+        if !self
+            .singular
+            .iter()
+            .any(|s| s.kind == SingularKind::Puncture)
+        {
             return f64::INFINITY;
         }
         let two_pi = 2.0 * std::f64::consts::PI;
@@ -402,7 +478,10 @@ impl<T: CNum> Eigenfunction<T> {
 /// The spine height c ∈ (0, 2π) farthest (in Im, modulo 2π) from every singular point.
 fn default_spine<T: CNum>(singular: &[Singular<T>]) -> f64 {
     let two_pi = 2.0 * std::f64::consts::PI;
-    let ims: Vec<f64> = singular.iter().map(|s| s.z.im_f64().rem_euclid(two_pi)).collect();
+    let ims: Vec<f64> = singular
+        .iter()
+        .map(|s| s.z.im_f64().rem_euclid(two_pi))
+        .collect();
     let mut best = (std::f64::consts::PI, -1.0);
     for k in 1..256 {
         let c = two_pi * k as f64 / 256.0;
@@ -436,19 +515,34 @@ impl Grid {
     pub fn parse(text: &str) -> Result<Grid, String> {
         let parts: Vec<&str> = text.trim().split(':').collect();
         if parts.len() != 3 {
-            return Err(format!("cannot read the grid {text:?}: use R0:R1:N, e.g. -12:12:481"));
+            return Err(format!(
+                "cannot read the grid {text:?}: use R0:R1:N, e.g. -12:12:481"
+            ));
         }
-        let num = |s: &str| s.trim().parse::<f64>().map_err(|_| format!("cannot read the grid {text:?}: {s:?} is not a number"));
+        let num = |s: &str| {
+            s.trim()
+                .parse::<f64>()
+                .map_err(|_| format!("cannot read the grid {text:?}: {s:?} is not a number"))
+        };
         let (start, end) = (num(parts[0])?, num(parts[1])?);
-        let points = parts[2].trim().parse::<usize>().map_err(|_| format!("cannot read the grid {text:?}: {:?} is not a point count", parts[2]))?;
+        let points = parts[2].trim().parse::<usize>().map_err(|_| {
+            format!(
+                "cannot read the grid {text:?}: {:?} is not a point count",
+                parts[2]
+            )
+        })?;
         if !start.is_finite() || !end.is_finite() {
             return Err(format!("the grid {text:?} has a non-finite end"));
         }
         if start >= end {
-            return Err(format!("the grid {text:?} is empty or reversed: R0 must be below R1"));
+            return Err(format!(
+                "the grid {text:?} is empty or reversed: R0 must be below R1"
+            ));
         }
         if !(2..=1_000_000).contains(&points) {
-            return Err(format!("the grid {text:?} needs between 2 and 1000000 points"));
+            return Err(format!(
+                "the grid {text:?} needs between 2 and 1000000 points"
+            ));
         }
         Ok(Grid { start, end, points })
     }
@@ -456,7 +550,9 @@ impl Grid {
     /// The grid values.
     pub fn values(&self) -> Vec<f64> {
         let h = (self.end - self.start) / (self.points - 1) as f64;
-        (0..self.points).map(|k| self.start + k as f64 * h).collect()
+        (0..self.points)
+            .map(|k| self.start + k as f64 * h)
+            .collect()
     }
 }
 
@@ -464,7 +560,10 @@ impl Grid {
 /// (a horizontal top or bottom edge), MATH.md §2.
 pub fn strip_poles<T: CNum>(curve: &Curve<T>) -> Vec<[f64; 2]> {
     match curve.puncture_orders() {
-        Ok((la, lc)) if la + lc > 0 => vec![[0.0, 2.0 * std::f64::consts::PI], [0.0, -2.0 * std::f64::consts::PI]],
+        Ok((la, lc)) if la + lc > 0 => vec![
+            [0.0, 2.0 * std::f64::consts::PI],
+            [0.0, -2.0 * std::f64::consts::PI],
+        ],
         _ => Vec::new(),
     }
 }
@@ -499,7 +598,9 @@ impl<T: CNum> Eigenfunction<T> {
     /// See [`Eigenfunction::psi`].
     pub fn normalization(&self, step: f64) -> Result<Normalization, EigenError> {
         let prec = self.lambda.prec();
-        let at = |r: f64| -> Result<Complex64, EigenError> { Ok(self.psi(&T::from_f64s(r, 0.0, prec))?.to_c64()) };
+        let at = |r: f64| -> Result<Complex64, EigenError> {
+            Ok(self.psi(&T::from_f64s(r, 0.0, prec))?.to_c64())
+        };
         let mut peak_value: f64 = 0.0;
         // L grows until |ψ(±L)| < 1e-16 of the peak, at most 40; where the two roots merge
         // asymptotically (x → 0 or ∞ a branch point, e.g. F0*, Q7) the continuation can fail
@@ -507,7 +608,9 @@ impl<T: CNum> Eigenfunction<T> {
         // the rest.
         let mut l = 4.0;
         loop {
-            let probe = (-8..=8).map(|k| at(k as f64 * l / 16.0).map(|v| v.norm())).collect::<Result<Vec<_>, _>>()?;
+            let probe = (-8..=8)
+                .map(|k| at(k as f64 * l / 16.0).map(|v| v.norm()))
+                .collect::<Result<Vec<_>, _>>()?;
             peak_value = probe.iter().copied().fold(peak_value, f64::max);
             let ends = match (at(-l - 4.0), at(l + 4.0)) {
                 (Ok(a), Ok(b)) => (a.norm(), b.norm()),
@@ -541,28 +644,46 @@ impl<T: CNum> Eigenfunction<T> {
         // |ψ| lies between 1e-13 and 1e-3 of its peak. Measured against a 3-parameter fit with a
         // power-law prefactor the slope is within 1 % for F0 and P2.
         let fit = |side: f64| -> f64 {
-            let pts: Vec<(f64, f64)> = (0..=n).map(|i| (-l + i as f64 * h, values[i])).filter(|(r, _)| r * side > 2.0).collect();
+            let pts: Vec<(f64, f64)> = (0..=n)
+                .map(|i| (-l + i as f64 * h, values[i]))
+                .filter(|(r, _)| r * side > 2.0)
+                .collect();
             let inside = |v: f64| v > 1e-13 * peak_value && v < 1e-3 * peak_value;
             let maxima: Vec<(f64, f64)> = (1..pts.len().saturating_sub(1))
-                .filter(|&i| pts[i].1 >= pts[i - 1].1 && pts[i].1 >= pts[i + 1].1 && inside(pts[i].1))
+                .filter(|&i| {
+                    pts[i].1 >= pts[i - 1].1 && pts[i].1 >= pts[i + 1].1 && inside(pts[i].1)
+                })
                 .map(|i| (pts[i].0.abs(), pts[i].1.ln()))
                 .collect();
             let chosen = if maxima.len() >= 3 {
                 maxima
             } else {
-                pts.iter().filter(|p| inside(p.1)).map(|p| (p.0.abs(), p.1.ln())).collect()
+                pts.iter()
+                    .filter(|p| inside(p.1))
+                    .map(|p| (p.0.abs(), p.1.ln()))
+                    .collect()
             };
             if chosen.len() < 3 {
                 return f64::NAN;
             }
             let m = chosen.len() as f64;
-            let (sx, sy) = chosen.iter().fold((0.0, 0.0), |acc, p| (acc.0 + p.0, acc.1 + p.1));
+            let (sx, sy) = chosen
+                .iter()
+                .fold((0.0, 0.0), |acc, p| (acc.0 + p.0, acc.1 + p.1));
             let (mx, my) = (sx / m, sy / m);
-            let (num, den) = chosen.iter().fold((0.0, 0.0), |acc, p| (acc.0 + (p.0 - mx) * (p.1 - my), acc.1 + (p.0 - mx).powi(2)));
+            let (num, den) = chosen.iter().fold((0.0, 0.0), |acc, p| {
+                (acc.0 + (p.0 - mx) * (p.1 - my), acc.1 + (p.0 - mx).powi(2))
+            });
             -num / den
         };
         let decay = [fit(-1.0), fit(1.0)];
-        let tail_of = |v: f64, k: f64| if k.is_finite() && k > 0.0 { v * v / (2.0 * k) } else { 0.0 };
+        let tail_of = |v: f64, k: f64| {
+            if k.is_finite() && k > 0.0 {
+                v * v / (2.0 * k)
+            } else {
+                0.0
+            }
+        };
         let tail = tail_of(values[0], decay[0]) + tail_of(values[n], decay[1]);
         let total = sum + tail;
         let phase = peak.2 / peak.2.norm();
@@ -590,7 +711,11 @@ pub fn reality_rule(laurent: &Laurent) -> Option<i64> {
     let mut ks: Vec<i64> = (-3..=3).collect();
     ks.sort_by_key(|k| (k.abs(), *k));
     ks.into_iter().find(|&k| {
-        terms.iter().all(|&([m1, m2], c)| terms.iter().any(|&(q, cq)| q == [m1 + k * m2, -m2] && cq == c))
+        terms.iter().all(|&([m1, m2], c)| {
+            terms
+                .iter()
+                .any(|&(q, cq)| q == [m1 + k * m2, -m2] && cq == c)
+        })
     })
 }
 
@@ -598,4 +723,3 @@ pub fn reality_rule(laurent: &Laurent) -> Option<i64> {
 pub fn reality_factor(k: i64, r: f64) -> Complex64 {
     Complex64::from_polar(1.0, -(k as f64) * r * r / (8.0 * std::f64::consts::PI))
 }
-

@@ -42,7 +42,14 @@ pub enum LaurentError {
          the tame symbols of {{-x,-y}} are all 1 only for the binomial coefficients of (w+1)^{length}, \
          which give {expected} here; with other coefficients the regulator is not defined on the curve"
     )]
-    NotTempered { point: LatticePoint, given: i64, expected: i64, from: LatticePoint, to: LatticePoint, length: usize },
+    NotTempered {
+        point: LatticePoint,
+        given: i64,
+        expected: i64,
+        from: LatticePoint,
+        to: LatticePoint,
+        length: usize,
+    },
     /// A coefficient was given at a point that is not a boundary lattice point.
     #[error("coefficient given at {point:?}, which is not a boundary lattice point of the polygon{}",
         if *point == [0, 0] { " (the constant term is the modulus a, not part of φ)" } else { "" })]
@@ -77,12 +84,22 @@ impl Univariate {
 
     /// Derivative `x·d/dx` applied: `Σ k c_k x^k`.
     pub fn euler_derivative(&self) -> Univariate {
-        Univariate { terms: self.terms.iter().filter(|t| t.0 != 0).map(|&(k, c)| (k, k * c)).collect() }
+        Univariate {
+            terms: self
+                .terms
+                .iter()
+                .filter(|t| t.0 != 0)
+                .map(|&(k, c)| (k, k * c))
+                .collect(),
+        }
     }
 
     /// Value at x = −1.
     pub fn at_minus_one(&self) -> i64 {
-        self.terms.iter().map(|&(k, c)| if k.rem_euclid(2) == 0 { c } else { -c }).sum()
+        self.terms
+            .iter()
+            .map(|&(k, c)| if k.rem_euclid(2) == 0 { c } else { -c })
+            .sum()
     }
 
     /// Human-readable form in the variable `var`.
@@ -132,7 +149,10 @@ impl Laurent {
             if given[..i].iter().any(|t| t.0 == point) {
                 return Err(LaurentError::Repeated { point });
             }
-            let edge = polygon.edges().into_iter().find_map(|e| e.iter().position(|q| *q == point).map(|j| (e, j)));
+            let edge = polygon
+                .edges()
+                .into_iter()
+                .find_map(|e| e.iter().position(|q| *q == point).map(|j| (e, j)));
             let Some((edge, j)) = edge else {
                 return Err(LaurentError::OffBoundary { point });
             };
@@ -184,7 +204,11 @@ impl Laurent {
     /// # Errors
     /// [`LaurentError::NotStrip`] when a term has |m₂| > 1.
     pub fn strip_parts(&self) -> Result<StripParts, LaurentError> {
-        let mut parts = [Univariate::default(), Univariate::default(), Univariate::default()];
+        let mut parts = [
+            Univariate::default(),
+            Univariate::default(),
+            Univariate::default(),
+        ];
         for &([m1, m2], c) in &self.terms {
             if m2.abs() > 1 {
                 return Err(LaurentError::NotStrip { point: [m1, m2] });
@@ -235,7 +259,10 @@ impl Laurent {
         for _ in 0..200 {
             let (h, g, m) = self.hamiltonian(z);
             let det = m[0][0] * m[1][1] - m[0][1] * m[1][0];
-            let step = [(m[1][1] * g[0] - m[0][1] * g[1]) / det, (m[0][0] * g[1] - m[1][0] * g[0]) / det];
+            let step = [
+                (m[1][1] * g[0] - m[0][1] * g[1]) / det,
+                (m[0][0] * g[1] - m[1][0] * g[0]) / det,
+            ];
             let mut t = 1.0;
             loop {
                 let trial = [z[0] - t * step[0], z[1] - t * step[1]];
@@ -258,7 +285,11 @@ impl fmt::Display for Laurent {
         let mut terms: Vec<&Term> = self.terms.iter().collect();
         // Display order: by m₂ descending, then m₁ descending.
         terms.sort_by_key(|t| (-t.0[1], -t.0[0]));
-        let s = render_terms(terms.iter().map(|&&([m1, m2], c)| (c, monomial(&[("x", m1), ("y", m2)]))));
+        let s = render_terms(
+            terms
+                .iter()
+                .map(|&&([m1, m2], c)| (c, monomial(&[("x", m1), ("y", m2)]))),
+        );
         f.write_str(&s)
     }
 }
@@ -268,7 +299,10 @@ impl fmt::Display for Laurent {
 /// # Errors
 /// [`LaurentError::Parse`] naming the offending piece.
 pub fn parse_coefficients(text: &str) -> Result<Vec<Term>, LaurentError> {
-    let err = |reason: String| LaurentError::Parse { text: text.to_string(), reason };
+    let err = |reason: String| LaurentError::Parse {
+        text: text.to_string(),
+        reason,
+    };
     let compact: String = text.chars().filter(|c| !c.is_whitespace()).collect();
     if compact.is_empty() {
         return Err(err("the list is empty".into()));
@@ -276,15 +310,27 @@ pub fn parse_coefficients(text: &str) -> Result<Vec<Term>, LaurentError> {
     let mut out = Vec::new();
     let mut rest = compact.as_str();
     while !rest.is_empty() {
-        let body = rest.strip_prefix('(').ok_or_else(|| err(format!("expected '(' at {rest:?}")))?;
-        let close = body.find(')').ok_or_else(|| err(format!("missing ')' in {rest:?}")))?;
+        let body = rest
+            .strip_prefix('(')
+            .ok_or_else(|| err(format!("expected '(' at {rest:?}")))?;
+        let close = body
+            .find(')')
+            .ok_or_else(|| err(format!("missing ')' in {rest:?}")))?;
         let coords: Vec<&str> = body[..close].split(',').collect();
         if coords.len() != 2 {
-            return Err(err(format!("a point needs two coordinates, got {:?}", &body[..close])));
+            return Err(err(format!(
+                "a point needs two coordinates, got {:?}",
+                &body[..close]
+            )));
         }
-        let parse_i = |s: &str| s.parse::<i64>().map_err(|_| err(format!("{s:?} is not an integer")));
+        let parse_i = |s: &str| {
+            s.parse::<i64>()
+                .map_err(|_| err(format!("{s:?} is not an integer")))
+        };
         let point = [parse_i(coords[0])?, parse_i(coords[1])?];
-        let after = body[close + 1..].strip_prefix('=').ok_or_else(|| err(format!("expected '=' after {point:?}")))?;
+        let after = body[close + 1..]
+            .strip_prefix('=')
+            .ok_or_else(|| err(format!("expected '=' after {point:?}")))?;
         let end = after.find(',').unwrap_or(after.len());
         let c = parse_i(&after[..end])?;
         out.push((point, c));
@@ -318,15 +364,26 @@ fn render_terms(terms: impl Iterator<Item = (i64, (String, String))>) -> String 
     for (c, (num, den)) in terms {
         let sign = if c < 0 { "-" } else { "+" };
         let c = c.abs();
-        let coeff = if c == 1 && !(num.is_empty() && den.is_empty()) { String::new() } else { c.to_string() };
+        let coeff = if c == 1 && !(num.is_empty() && den.is_empty()) {
+            String::new()
+        } else {
+            c.to_string()
+        };
         let body = match (num.is_empty(), den.is_empty()) {
             (true, true) => coeff,
             (false, true) => format!("{coeff}{num}"),
-            (true, false) => format!("{}/{den}", if coeff.is_empty() { "1".into() } else { coeff }),
+            (true, false) => format!(
+                "{}/{den}",
+                if coeff.is_empty() { "1".into() } else { coeff }
+            ),
             (false, false) => format!("{coeff}{num}/{den}"),
         };
         if out.is_empty() {
-            out = if sign == "-" { format!("-{body}") } else { body };
+            out = if sign == "-" {
+                format!("-{body}")
+            } else {
+                body
+            };
         } else {
             out.push_str(&format!(" {sign} {body}"));
         }
@@ -360,7 +417,9 @@ mod tests {
 
     #[test]
     fn rendering() {
-        let u = Univariate { terms: vec![(-1, 1), (0, 2), (1, 1)] };
+        let u = Univariate {
+            terms: vec![(-1, 1), (0, 2), (1, 1)],
+        };
         assert_eq!(u.render("x"), "1/x + 2 + x");
         assert_eq!(u.at_minus_one(), 0);
     }

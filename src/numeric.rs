@@ -127,7 +127,11 @@ impl CNum for Complex {
     fn powi(&self, n: i64) -> Self {
         // Binary powering by multiplication (MPC's pow goes through log/exp: slow and less exact).
         let p = CNum::prec(self);
-        let mut base = if n < 0 { Complex::with_val(p, self.recip_ref()) } else { self.clone() };
+        let mut base = if n < 0 {
+            Complex::with_val(p, self.recip_ref())
+        } else {
+            self.clone()
+        };
         let mut e = n.unsigned_abs();
         let mut acc = Complex::with_val(p, 1);
         while e > 0 {

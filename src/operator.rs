@@ -61,13 +61,19 @@ impl QuantumCurve {
     /// [`LaurentError::NotStrip`] if φ has a term with |m₂| > 1.
     pub fn new(laurent: &Laurent) -> Result<Self, LaurentError> {
         laurent.strip_parts()?;
-        Ok(QuantumCurve { terms: laurent.terms().to_vec() })
+        Ok(QuantumCurve {
+            terms: laurent.terms().to_vec(),
+        })
     }
 
     /// The shift coefficients at r.
     pub fn coefficients<T: CNum>(&self, r: &T) -> ShiftCoefficients<T> {
         let zero = r.int_like(0);
-        let mut out = ShiftCoefficients { down: zero.clone(), centre: zero.clone(), up: zero };
+        let mut out = ShiftCoefficients {
+            down: zero.clone(),
+            centre: zero.clone(),
+            up: zero,
+        };
         for &([m1, m2], c) in &self.terms {
             let term = (r.clone() * r.int_like(m1)).exp() * r.int_like(c * weyl_sign([m1, m2]));
             match m2 {

@@ -32,7 +32,9 @@
 //! "Modular Mahler measures I" (1999) for R_α as a Mahler measure; the Beilinson regulator and
 //! its periods: "Mahler's measure and the dilogarithm (I)", Canad. J. Math. 54 (2002).
 
-use crate::cover::{self, continue_along, CoverError, Curve, March, PathIntegrals, Point, Singular, SingularKind};
+use crate::cover::{
+    self, continue_along, CoverError, Curve, March, PathIntegrals, Point, Singular, SingularKind,
+};
 use crate::laurent::Laurent;
 use crate::numeric::CNum;
 use rug::{Complex, Float, Integer};
@@ -52,7 +54,11 @@ pub enum PeriodsError {
     TooFewTerms { needed: usize, available: usize },
     /// The branch points do not split into two inside and two outside the α circle.
     #[error("no β cycle: the branch points do not straddle the α circle |x| = e^{z_alpha} (found {inside} inside, {outside} outside)")]
-    NoBetaCycle { z_alpha: f64, inside: usize, outside: usize },
+    NoBetaCycle {
+        z_alpha: f64,
+        inside: usize,
+        outside: usize,
+    },
     /// The β loop did not close on the cover.
     #[error("the β loop did not return to its starting sheet")]
     BetaNotClosed,
@@ -77,7 +83,11 @@ pub struct CyclePeriods<T> {
 ///
 /// # Errors
 /// [`PeriodsError::SeriesDiverges`] for |a| ≤ φ(1,1); [`PeriodsError::TooFewTerms`].
-pub fn alpha_series(constant_terms: &[Integer], coefficient_sum: i64, a: &Complex) -> Result<CyclePeriods<Complex>, PeriodsError> {
+pub fn alpha_series(
+    constant_terms: &[Integer],
+    coefficient_sum: i64,
+    a: &Complex,
+) -> Result<CyclePeriods<Complex>, PeriodsError> {
     let prec = CNum::prec(a);
     let modulus = a.abs_f64();
     let radius = coefficient_sum as f64;
@@ -88,7 +98,10 @@ pub fn alpha_series(constant_terms: &[Integer], coefficient_sum: i64, a: &Comple
     let ratio = radius / modulus;
     let needed = ((prec as f64 + 8.0) * std::f64::consts::LN_2 / -ratio.ln()).ceil() as usize + 1;
     if needed > constant_terms.len() {
-        return Err(PeriodsError::TooFewTerms { needed, available: constant_terms.len() });
+        return Err(PeriodsError::TooFewTerms {
+            needed,
+            available: constant_terms.len(),
+        });
     }
     let inv = Complex::with_val(prec, a.clone().recip());
     let mut power = inv.clone(); // a^{-n-1}
@@ -97,11 +110,16 @@ pub fn alpha_series(constant_terms: &[Integer], coefficient_sum: i64, a: &Comple
     let mut daa_sum = Complex::new(prec);
     let mut reg_sum = Complex::new(prec);
     for (n, u) in constant_terms.iter().enumerate().take(needed) {
-        let signed = if n % 2 == 0 { Float::with_val(prec, u) } else { -Float::with_val(prec, u) };
+        let signed = if n % 2 == 0 {
+            Float::with_val(prec, u)
+        } else {
+            -Float::with_val(prec, u)
+        };
         omega_sum += Complex::with_val(prec, &power * &signed);
         // d/da a^{−n−1} = −(n+1) a^{−n−2}
         da_sum -= Complex::with_val(prec, &power * &signed) * &inv * (n + 1) as u32;
-        daa_sum += Complex::with_val(prec, &power * &signed) * &inv * &inv * ((n + 1) * (n + 2)) as u32;
+        daa_sum +=
+            Complex::with_val(prec, &power * &signed) * &inv * &inv * ((n + 1) * (n + 2)) as u32;
         if n >= 1 {
             // (−1)ⁿ uₙ / (n aⁿ) = (−1)ⁿ uₙ a^{−n−1} · a / n
             let t = Complex::with_val(prec, &power * &signed) * a / n as u32;
@@ -115,8 +133,16 @@ pub fn alpha_series(constant_terms: &[Integer], coefficient_sum: i64, a: &Comple
     let omega_daa = -(two_pi_i.clone() * daa_sum);
     let regulator = -(two_pi_i * (a.clone().ln() - reg_sum));
     let tail = ratio.powi(needed as i32) / (1.0 - ratio);
-    let error = tail * (omega.abs_f64() + regulator.abs_f64()) + 2f64.powi(-(prec as i32) + 8) * regulator.abs_f64();
-    Ok(CyclePeriods { omega, regulator, omega_da, omega_daa, steps: 0, error })
+    let error = tail * (omega.abs_f64() + regulator.abs_f64())
+        + 2f64.powi(-(prec as i32) + 8) * regulator.abs_f64();
+    Ok(CyclePeriods {
+        omega,
+        regulator,
+        omega_da,
+        omega_daa,
+        steps: 0,
+        error,
+    })
 }
 
 /// The real part z_α of the α circle |x| = e^{z_α}.
@@ -129,16 +155,22 @@ pub fn alpha_offset<T: CNum>(curve: &Curve<T>) -> Result<f64, PeriodsError> {
 ///
 /// # Errors
 /// See [`crate::cover::continue_along`].
-pub fn alpha_path<T: CNum>(curve: &Curve<T>, singular: &[Singular<T>], march: &March) -> Result<CyclePeriods<T>, PeriodsError> {
+pub fn alpha_path<T: CNum>(
+    curve: &Curve<T>,
+    singular: &[Singular<T>],
+    march: &March,
+) -> Result<CyclePeriods<T>, PeriodsError> {
     let like = curve.modulus();
     let prec = like.prec();
     let z_alpha = alpha_offset(curve)?;
     let pi_i = like.pi_like() * like.i_like();
     let z0 = T::from_f64s(z_alpha, 0.0, prec) + pi_i.clone();
     let z1 = z0.clone() - pi_i.clone() * like.int_like(2);
-    let [big, small] = curve.roots(&z0);
-    let _ = big;
-    let start = Point { z: z0.clone(), y: small };
+    let [_, small] = curve.roots(&z0);
+    let start = Point {
+        z: z0.clone(),
+        y: small,
+    };
     let (_, ints) = continue_along(curve, singular, &start, &[z0, z1], march)?;
     Ok(regulator_of(ints, &start))
 }
@@ -146,7 +178,14 @@ pub fn alpha_path<T: CNum>(curve: &Curve<T>, singular: &[Singular<T>], march: &M
 fn regulator_of<T: CNum>(ints: PathIntegrals<T>, start: &Point<T>) -> CyclePeriods<T> {
     let log_start = (-start.y.clone()).ln();
     let regulator = ints.eta.clone() - log_start * ints.dz.clone();
-    CyclePeriods { omega: ints.omega, regulator, omega_da: ints.omega_da, omega_daa: ints.omega_daa, steps: ints.steps, error: ints.error }
+    CyclePeriods {
+        omega: ints.omega,
+        regulator,
+        omega_da: ints.omega_da,
+        omega_daa: ints.omega_daa,
+        steps: ints.steps,
+        error: ints.error,
+    }
 }
 
 /// The β cycle chosen by the module's rule: its polyline (closed) and the two branch points.
@@ -173,15 +212,25 @@ fn segment_distance(p: [f64; 2], a: [f64; 2], b: [f64; 2]) -> f64 {
 ///
 /// # Errors
 /// [`PeriodsError::NoBetaCycle`] when the branch points do not straddle the α circle.
-pub fn beta_loop<T: CNum>(curve: &Curve<T>, singular: &[Singular<T>]) -> Result<BetaLoop, PeriodsError> {
+pub fn beta_loop<T: CNum>(
+    curve: &Curve<T>,
+    singular: &[Singular<T>],
+) -> Result<BetaLoop, PeriodsError> {
     let two_pi = 2.0 * std::f64::consts::PI;
     let z_alpha = alpha_offset(curve)?;
-    let branch: Vec<[f64; 2]> =
-        singular.iter().filter(|s| s.kind == SingularKind::Branch).map(|s| [s.z.re_f64(), s.z.im_f64()]).collect();
+    let branch: Vec<[f64; 2]> = singular
+        .iter()
+        .filter(|s| s.kind == SingularKind::Branch)
+        .map(|s| [s.z.re_f64(), s.z.im_f64()])
+        .collect();
     let inside: Vec<[f64; 2]> = branch.iter().copied().filter(|b| b[0] < z_alpha).collect();
     let outside: Vec<[f64; 2]> = branch.iter().copied().filter(|b| b[0] > z_alpha).collect();
     if inside.is_empty() || outside.is_empty() {
-        return Err(PeriodsError::NoBetaCycle { z_alpha, inside: inside.len(), outside: outside.len() });
+        return Err(PeriodsError::NoBetaCycle {
+            z_alpha,
+            inside: inside.len(),
+            outside: outside.len(),
+        });
     }
     // Nearest to the circle; ties (conjugate pairs) prefer the upper point.
     let tie = 1e-9;
@@ -225,9 +274,12 @@ pub fn beta_loop<T: CNum>(curve: &Curve<T>, singular: &[Singular<T>]) -> Result<
         for j in -3..=3 {
             let q = [p[0], p[1] + j as f64 * two_pi];
             let d = segment_distance(q, b_in, b_out);
-            let is_end = |e: [f64; 2]| ((q[0] - e[0]).powi(2) + (q[1] - e[1]).powi(2)).sqrt() < 1e-9;
+            let is_end =
+                |e: [f64; 2]| ((q[0] - e[0]).powi(2) + (q[1] - e[1]).powi(2)).sqrt() < 1e-9;
             match s.kind {
-                SingularKind::Branch if !is_end(b_in) && !is_end(b_out) => clearance_branch = clearance_branch.min(d),
+                SingularKind::Branch if !is_end(b_in) && !is_end(b_out) => {
+                    clearance_branch = clearance_branch.min(d)
+                }
                 SingularKind::Puncture => puncture_distance = puncture_distance.min(d),
                 _ => {}
             }
@@ -239,7 +291,11 @@ pub fn beta_loop<T: CNum>(curve: &Curve<T>, singular: &[Singular<T>]) -> Result<
     if !encloses_puncture {
         delta = delta.min(0.5 * puncture_distance);
     }
-    Ok(BetaLoop { branch_points: [b_in, b_out], polyline: stadium(b_in, b_out, delta), encloses_puncture })
+    Ok(BetaLoop {
+        branch_points: [b_in, b_out],
+        polyline: stadium(b_in, b_out, delta),
+        encloses_puncture,
+    })
 }
 
 /// A closed polyline at distance δ around the segment [a, b], counter-clockwise, starting and
@@ -251,9 +307,15 @@ pub fn stadium(a: [f64; 2], b: [f64; 2], delta: f64) -> Vec<[f64; 2]> {
     let n = [-u[1], u[0]];
     let at = |c: [f64; 2], angle: f64| {
         let (s, co) = angle.sin_cos();
-        [c[0] + delta * (co * u[0] + s * n[0]), c[1] + delta * (co * u[1] + s * n[1])]
+        [
+            c[0] + delta * (co * u[0] + s * n[0]),
+            c[1] + delta * (co * u[1] + s * n[1]),
+        ]
     };
-    let mid = [0.5 * (a[0] + b[0]) + delta * n[0], 0.5 * (a[1] + b[1]) + delta * n[1]];
+    let mid = [
+        0.5 * (a[0] + b[0]) + delta * n[0],
+        0.5 * (a[1] + b[1]) + delta * n[1],
+    ];
     let arc = 6;
     // Upper side (+n) from the middle towards a, around a, lower side to b, around b, back.
     let mut out = vec![mid];
@@ -275,11 +337,22 @@ pub fn stadium(a: [f64; 2], b: [f64; 2], delta: f64) -> Vec<[f64; 2]> {
 /// # Errors
 /// [`PeriodsError::BetaNotClosed`] if the loop does not return to its sheet; see
 /// [`crate::cover::continue_along`].
-pub fn loop_periods<T: CNum>(curve: &Curve<T>, singular: &[Singular<T>], polyline: &[[f64; 2]], march: &March) -> Result<CyclePeriods<T>, PeriodsError> {
+pub fn loop_periods<T: CNum>(
+    curve: &Curve<T>,
+    singular: &[Singular<T>],
+    polyline: &[[f64; 2]],
+    march: &March,
+) -> Result<CyclePeriods<T>, PeriodsError> {
     let prec = curve.modulus().prec();
-    let path: Vec<T> = polyline.iter().map(|p| T::from_f64s(p[0], p[1], prec)).collect();
+    let path: Vec<T> = polyline
+        .iter()
+        .map(|p| T::from_f64s(p[0], p[1], prec))
+        .collect();
     let [y0, _] = curve.roots(&path[0]);
-    let start = Point { z: path[0].clone(), y: y0 };
+    let start = Point {
+        z: path[0].clone(),
+        y: y0,
+    };
     let (end, ints) = continue_along(curve, singular, &start, &path, march)?;
     let closure = (end.y.clone() - start.y.clone()).abs_f64() / start.y.abs_f64();
     if closure > 1e-6 {
@@ -332,7 +405,12 @@ pub struct Periods<T> {
 ///
 /// # Errors
 /// See [`PeriodsError`].
-pub fn periods<T: CNum>(laurent: &Laurent, a: T, digits: f64, alpha: Option<CyclePeriods<T>>) -> Result<Periods<T>, PeriodsError> {
+pub fn periods<T: CNum>(
+    laurent: &Laurent,
+    a: T,
+    digits: f64,
+    alpha: Option<CyclePeriods<T>>,
+) -> Result<Periods<T>, PeriodsError> {
     let curve = Curve::new(laurent, a)?;
     let singular = curve.singular_points()?;
     let march = March::for_digits(digits);
@@ -346,17 +424,31 @@ pub fn periods<T: CNum>(laurent: &Laurent, a: T, digits: f64, alpha: Option<Cycl
     let tau = beta.omega.clone() / alpha.omega.clone();
     let four_pi2 = two_pi_i.clone() * two_pi_i;
     let nu = (beta.regulator.clone() - tau.clone() * alpha.regulator.clone()) / four_pi2.clone();
-    let tau_da = (beta.omega_da.clone() * alpha.omega.clone() - beta.omega.clone() * alpha.omega_da.clone())
+    let tau_da = (beta.omega_da.clone() * alpha.omega.clone()
+        - beta.omega.clone() * alpha.omega_da.clone())
         / (alpha.omega.clone() * alpha.omega.clone());
-    let tau_daa = (beta.omega_daa.clone() * alpha.omega.clone() - beta.omega.clone() * alpha.omega_daa.clone())
+    let tau_daa = (beta.omega_daa.clone() * alpha.omega.clone()
+        - beta.omega.clone() * alpha.omega_daa.clone())
         / (alpha.omega.clone() * alpha.omega.clone())
         - like.int_like(2) * tau_da.clone() * alpha.omega_da.clone() / alpha.omega.clone();
     let nu_da = -(tau_da.clone() * alpha.regulator.clone()) / four_pi2.clone();
     let nu_daa = -(tau_daa * alpha.regulator.clone() + tau_da * alpha.omega.clone()) / four_pi2;
     let scale = 1.0 / (4.0 * std::f64::consts::PI * std::f64::consts::PI);
     let nu_error = scale
-        * (beta.error + tau.abs_f64() * alpha.error + alpha.regulator.abs_f64() * (beta.error + tau.abs_f64() * alpha.error) / alpha.omega.abs_f64());
-    Ok(Periods { alpha, beta, tau, nu, nu_da, nu_daa, beta_loop, nu_error })
+        * (beta.error
+            + tau.abs_f64() * alpha.error
+            + alpha.regulator.abs_f64() * (beta.error + tau.abs_f64() * alpha.error)
+                / alpha.omega.abs_f64());
+    Ok(Periods {
+        alpha,
+        beta,
+        tau,
+        nu,
+        nu_da,
+        nu_daa,
+        beta_loop,
+        nu_error,
+    })
 }
 
 /// Ω_α and R_α by both methods with their agreement, and the path periods at modulus `a`.
@@ -376,13 +468,22 @@ pub struct Comparison {
 ///
 /// # Errors
 /// See [`PeriodsError`].
-pub fn compare(laurent: &Laurent, a: &Complex, constant_terms: &[Integer]) -> Result<Comparison, PeriodsError> {
+pub fn compare(
+    laurent: &Laurent,
+    a: &Complex,
+    constant_terms: &[Integer],
+) -> Result<Comparison, PeriodsError> {
     let bits = CNum::prec(a);
     let (series, series_note) = match alpha_series(constant_terms, laurent.coefficient_sum(), a) {
         Ok(s) => (Some(s), None),
         Err(e) => (None, Some(e.to_string())),
     };
-    let path = periods(laurent, a.clone(), crate::precision::digits_for_bits(bits) as f64, None)?;
+    let path = periods(
+        laurent,
+        a.clone(),
+        crate::precision::digits_for_bits(bits) as f64,
+        None,
+    )?;
     let agreement_digits = series.as_ref().map(|s| {
         let rel = |x: &Complex, y: &Complex| (x.clone() - y.clone()).abs_f64() / y.abs_f64();
         let worst = rel(&s.omega, &path.alpha.omega).max(rel(&s.regulator, &path.alpha.regulator));
@@ -392,7 +493,12 @@ pub fn compare(laurent: &Laurent, a: &Complex, constant_terms: &[Integer]) -> Re
             -worst.log10()
         }
     });
-    Ok(Comparison { series, series_note, path, agreement_digits })
+    Ok(Comparison {
+        series,
+        series_note,
+        path,
+        agreement_digits,
+    })
 }
 
 /// Re-exported so callers need not import the cover module for settings.
@@ -411,30 +517,72 @@ mod tests {
     fn nu_is_one_at_the_checked_ground_states() {
         // MATH.md §4 checked values: a₀ of F0, P2 and the hexagon give ν = 1 (level 0 ↔ ν = n + 1).
         let cases = [
-            (lp(vec![([1, 0], 1), ([0, 1], 1), ([-1, 0], 1), ([0, -1], 1)]), 17.846643118044799282),
-            (lp(vec![([1, 0], 1), ([0, 1], 1), ([-1, -1], 1)]), 12.970039821793337437),
-            (lp(vec![([1, 0], 1), ([1, 1], 1), ([0, 1], 1), ([-1, 0], 1), ([-1, -1], 1), ([0, -1], 1)]), 36.512388457960298416),
+            (
+                lp(vec![([1, 0], 1), ([0, 1], 1), ([-1, 0], 1), ([0, -1], 1)]),
+                17.846643118044799282,
+            ),
+            (
+                lp(vec![([1, 0], 1), ([0, 1], 1), ([-1, -1], 1)]),
+                12.970039821793337437,
+            ),
+            (
+                lp(vec![
+                    ([1, 0], 1),
+                    ([1, 1], 1),
+                    ([0, 1], 1),
+                    ([-1, 0], 1),
+                    ([-1, -1], 1),
+                    ([0, -1], 1),
+                ]),
+                36.512388457960298416,
+            ),
         ];
         for (l, a) in cases {
             let p = periods(&l, Complex64::new(a, 0.0), 15.0, None).unwrap();
-            eprintln!("a {a} nu {} tau {} loop {:?}", p.nu, p.tau, p.beta_loop.branch_points);
+            eprintln!(
+                "a {a} nu {} tau {} loop {:?}",
+                p.nu, p.tau, p.beta_loop.branch_points
+            );
             assert!((p.nu - 1.0).norm() < 1e-9, "ν = {}", p.nu);
             // dν/da against a central difference.
             let h = 1e-5 * a;
-            let up = periods(&l, Complex64::new(a + h, 0.0), 15.0, None).unwrap().nu;
-            let down = periods(&l, Complex64::new(a - h, 0.0), 15.0, None).unwrap().nu;
+            let up = periods(&l, Complex64::new(a + h, 0.0), 15.0, None)
+                .unwrap()
+                .nu;
+            let down = periods(&l, Complex64::new(a - h, 0.0), 15.0, None)
+                .unwrap()
+                .nu;
             let fd = (up - down) / (2.0 * h);
-            assert!((fd - p.nu_da).norm() < 1e-7 * p.nu_da.norm(), "dν/da {} vs {}", p.nu_da, fd);
-            let up_d = periods(&l, Complex64::new(a + h, 0.0), 15.0, None).unwrap().nu_da;
-            let down_d = periods(&l, Complex64::new(a - h, 0.0), 15.0, None).unwrap().nu_da;
+            assert!(
+                (fd - p.nu_da).norm() < 1e-7 * p.nu_da.norm(),
+                "dν/da {} vs {}",
+                p.nu_da,
+                fd
+            );
+            let up_d = periods(&l, Complex64::new(a + h, 0.0), 15.0, None)
+                .unwrap()
+                .nu_da;
+            let down_d = periods(&l, Complex64::new(a - h, 0.0), 15.0, None)
+                .unwrap()
+                .nu_da;
             let fd2 = (up_d - down_d) / (2.0 * h);
-            assert!((fd2 - p.nu_daa).norm() < 1e-6 * p.nu_daa.norm(), "d²ν/da² {} vs {}", p.nu_daa, fd2);
+            assert!(
+                (fd2 - p.nu_daa).norm() < 1e-6 * p.nu_daa.norm(),
+                "d²ν/da² {} vs {}",
+                p.nu_daa,
+                fd2
+            );
             // The series α agrees with the path α.
             let terms = l.constant_terms(400).unwrap();
-            let s = alpha_series(&terms, l.coefficient_sum(), &rug::Complex::with_val(64, a)).unwrap();
-            assert!((s.omega.real().to_f64() - p.alpha.omega.re).abs() < 1e-13 * p.alpha.omega.norm());
-            assert!((s.omega_da.imag().to_f64() - p.alpha.omega_da.im).abs() < 1e-12 * p.alpha.omega_da.norm());
+            let s =
+                alpha_series(&terms, l.coefficient_sum(), &rug::Complex::with_val(64, a)).unwrap();
+            assert!(
+                (s.omega.real().to_f64() - p.alpha.omega.re).abs() < 1e-13 * p.alpha.omega.norm()
+            );
+            assert!(
+                (s.omega_da.imag().to_f64() - p.alpha.omega_da.im).abs()
+                    < 1e-12 * p.alpha.omega_da.norm()
+            );
         }
     }
 }
-

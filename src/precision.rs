@@ -39,7 +39,11 @@ pub fn check_digits(digits: u32) -> Result<(), PrecisionError> {
     if (MIN_DIGITS..=MAX_DIGITS).contains(&digits) {
         Ok(())
     } else {
-        Err(PrecisionError::DigitsOutOfRange { digits, min: MIN_DIGITS, max: MAX_DIGITS })
+        Err(PrecisionError::DigitsOutOfRange {
+            digits,
+            min: MIN_DIGITS,
+            max: MAX_DIGITS,
+        })
     }
 }
 

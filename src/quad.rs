@@ -114,7 +114,10 @@ pub fn rule(n: usize, prec: u32) -> Arc<Rule> {
         return r.clone();
     }
     let r = Arc::new(compute_rule(n.max(1), prec));
-    cache.lock().expect("quadrature cache").insert((n, prec), r.clone());
+    cache
+        .lock()
+        .expect("quadrature cache")
+        .insert((n, prec), r.clone());
     r
 }
 
@@ -125,8 +128,14 @@ pub fn rule_f64(n: usize) -> Arc<RuleF64> {
         return r.clone();
     }
     let r = rule(n, 128);
-    let out = Arc::new(RuleF64 { nodes: r.nodes.iter().map(|x| x.to_f64()).collect(), weights: r.weights.iter().map(|x| x.to_f64()).collect() });
-    cache.lock().expect("quadrature cache").insert((n, 53), out.clone());
+    let out = Arc::new(RuleF64 {
+        nodes: r.nodes.iter().map(|x| x.to_f64()).collect(),
+        weights: r.weights.iter().map(|x| x.to_f64()).collect(),
+    });
+    cache
+        .lock()
+        .expect("quadrature cache")
+        .insert((n, 53), out.clone());
     out
 }
 
@@ -141,10 +150,18 @@ pub fn rule_for<T: CNum>(n: usize, like: &T) -> Vec<(T, T)> {
     let prec = like.prec();
     if prec <= 53 {
         let r = rule_f64(n);
-        r.nodes.iter().zip(&r.weights).map(|(&t, &w)| (T::from_f64s(t, 0.0, 53), T::from_f64s(w, 0.0, 53))).collect()
+        r.nodes
+            .iter()
+            .zip(&r.weights)
+            .map(|(&t, &w)| (T::from_f64s(t, 0.0, 53), T::from_f64s(w, 0.0, 53)))
+            .collect()
     } else {
         let r = rule(n, prec);
-        r.nodes.iter().zip(&r.weights).map(|(t, w)| (from_float::<T>(t), from_float::<T>(w))).collect()
+        r.nodes
+            .iter()
+            .zip(&r.weights)
+            .map(|(t, w)| (from_float::<T>(t), from_float::<T>(w)))
+            .collect()
     }
 }
 
@@ -214,11 +231,17 @@ mod tests {
             let k = n - 1; // degree 2k = 2n − 2
             let mut m = Float::new(prec);
             for (t, w) in r.nodes.iter().zip(&r.weights) {
-                m += { use rug::ops::Pow; Float::with_val(prec, t.pow(2 * k as u32)) } * w;
+                m += {
+                    use rug::ops::Pow;
+                    Float::with_val(prec, t.pow(2 * k as u32))
+                } * w;
             }
             let exact = Float::with_val(prec, 2u32) / (2 * k + 1) as u32;
             let e = Float::with_val(prec, &m - &exact).abs().to_f64();
-            assert!(e < 2f64.powi(-(prec as i32) + 10), "n={n}: moment error {e:e}");
+            assert!(
+                e < 2f64.powi(-(prec as i32) + 10),
+                "n={n}: moment error {e:e}"
+            );
         }
     }
 

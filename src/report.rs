@@ -31,12 +31,19 @@ pub fn decimal(value: &Float, digits: u32) -> String {
 }
 
 fn plain_decimal(s: &str) -> String {
-    let Some((mantissa, exp)) = s.split_once('e') else { return s.to_string() };
-    let Ok(exp) = exp.parse::<i64>() else { return s.to_string() };
+    let Some((mantissa, exp)) = s.split_once('e') else {
+        return s.to_string();
+    };
+    let Ok(exp) = exp.parse::<i64>() else {
+        return s.to_string();
+    };
     if !(-6..=30).contains(&exp) {
         return s.to_string();
     }
-    let (sign, m) = mantissa.strip_prefix('-').map(|m| ("-", m)).unwrap_or(("", mantissa));
+    let (sign, m) = mantissa
+        .strip_prefix('-')
+        .map(|m| ("-", m))
+        .unwrap_or(("", mantissa));
     let digits: String = m.chars().filter(|c| *c != '.').collect();
     let point = m.find('.').unwrap_or(m.len()) as i64 + exp;
     let out = if point <= 0 {
@@ -44,7 +51,11 @@ fn plain_decimal(s: &str) -> String {
     } else if point as usize >= digits.len() {
         format!("{}{}", digits, "0".repeat(point as usize - digits.len()))
     } else {
-        format!("{}.{}", &digits[..point as usize], &digits[point as usize..])
+        format!(
+            "{}.{}",
+            &digits[..point as usize],
+            &digits[point as usize..]
+        )
     };
     format!("{sign}{out}")
 }
@@ -66,7 +77,9 @@ pub fn family_json(f: &Family) -> Value {
     });
     if f.applicable {
         let laurent = Laurent::tempered(&f.polygon());
-        let parts = laurent.strip_parts().expect("applicable families are in strip form");
+        let parts = laurent
+            .strip_parts()
+            .expect("applicable families are in strip form");
         let (_, threshold) = laurent.classical_minimum();
         v["phi"] = json!(laurent.to_string());
         v["a"] = json!(parts.a.render("x"));
@@ -92,19 +105,41 @@ pub fn families_json(families: &[Family]) -> Value {
 /// `regwave families` as a table.
 pub fn families_table(families: &[Family]) -> String {
     let mut out = String::new();
-    out.push_str(&format!("{:<6} {:>3}  {:<42} {:>9}  {}\n", "id", "b", "vertices (strip form)", "threshold", "phi"));
+    out.push_str(&format!(
+        "{:<6} {:>3}  {:<42} {:>9}  {}\n",
+        "id", "b", "vertices (strip form)", "threshold", "phi"
+    ));
     for f in families {
-        let verts = f.vertices.iter().map(|p| format!("({},{})", p[0], p[1])).collect::<Vec<_>>().join(",");
+        let verts = f
+            .vertices
+            .iter()
+            .map(|p| format!("({},{})", p[0], p[1]))
+            .collect::<Vec<_>>()
+            .join(",");
         if f.applicable {
             let laurent = Laurent::tempered(&f.polygon());
             let (_, t) = laurent.classical_minimum();
-            out.push_str(&format!("{:<6} {:>3}  {:<42} {:>9.5}  {}\n", f.id, f.boundary_points, verts, t, laurent));
+            out.push_str(&format!(
+                "{:<6} {:>3}  {:<42} {:>9.5}  {}\n",
+                f.id, f.boundary_points, verts, t, laurent
+            ));
         } else {
-            out.push_str(&format!("{:<6} {:>3}  {:<42} {:>9}  not applicable: {}\n", f.id, f.boundary_points, verts, "-", f.reason.unwrap_or("")));
+            out.push_str(&format!(
+                "{:<6} {:>3}  {:<42} {:>9}  not applicable: {}\n",
+                f.id,
+                f.boundary_points,
+                verts,
+                "-",
+                f.reason.unwrap_or("")
+            ));
         }
     }
     let n = families.iter().filter(|f| f.applicable).count();
-    out.push_str(&format!("\n{} families in strip form, {} not applicable.\n", n, families.len() - n));
+    out.push_str(&format!(
+        "\n{} families in strip form, {} not applicable.\n",
+        n,
+        families.len() - n
+    ));
     out
 }
 
@@ -114,7 +149,13 @@ fn level_digits(value: &Float, error: f64, requested: u32) -> u32 {
 }
 
 /// `regwave spectrum --json`.
-pub fn spectrum_json(family: &str, spectrum: &Spectrum, digits: u32, inputs: Value, elapsed_s: f64) -> Value {
+pub fn spectrum_json(
+    family: &str,
+    spectrum: &Spectrum,
+    digits: u32,
+    inputs: Value,
+    elapsed_s: f64,
+) -> Value {
     let eigenvalues: Vec<Value> = spectrum
         .levels
         .iter()
@@ -157,13 +198,27 @@ pub fn spectrum_table(family: &str, spectrum: &Spectrum, digits: u32, elapsed_s:
          harmonic-oscillator Rayleigh-Ritz, bases {:?}, {} bits, {:.2} s\n\n",
         spectrum.bases, spectrum.working_bits, elapsed_s
     );
-    out.push_str(&format!("{:>5}  {:<40} {:<28} {:>9}\n", "level", "a_n", "log a_n", "error"));
+    out.push_str(&format!(
+        "{:>5}  {:<40} {:<28} {:>9}\n",
+        "level", "a_n", "log a_n", "error"
+    ));
     for l in &spectrum.levels {
         let d = level_digits(&l.value, l.error_estimate, digits);
         let log = Float::with_val(spectrum.working_bits, l.value.ln_ref());
-        out.push_str(&format!("{:>5}  {:<40} {:<28} {:>9}\n", l.level, decimal(&l.value, d), decimal(&log, d.min(26)), sci(l.error_estimate)));
+        out.push_str(&format!(
+            "{:>5}  {:<40} {:<28} {:>9}\n",
+            l.level,
+            decimal(&l.value, d),
+            decimal(&log, d.min(26)),
+            sci(l.error_estimate)
+        ));
     }
-    let short: Vec<String> = spectrum.levels.iter().filter(|l| level_digits(&l.value, l.error_estimate, digits) < digits).map(|l| l.level.to_string()).collect();
+    let short: Vec<String> = spectrum
+        .levels
+        .iter()
+        .filter(|l| level_digits(&l.value, l.error_estimate, digits) < digits)
+        .map(|l| l.level.to_string())
+        .collect();
     if !short.is_empty() {
         out.push_str(&format!(
             "\nlevels {} did not reach {digits} digits within the largest basis; raise --max-basis for more.\n",
@@ -195,7 +250,14 @@ pub fn complex_json(z: &rug::Complex, digits: u32) -> Value {
 }
 
 /// `regwave periods --json`.
-pub fn periods_json(family: &str, c: &crate::periods::Comparison, digits: u32, bits: u32, inputs: Value, elapsed_s: f64) -> Value {
+pub fn periods_json(
+    family: &str,
+    c: &crate::periods::Comparison,
+    digits: u32,
+    bits: u32,
+    inputs: Value,
+    elapsed_s: f64,
+) -> Value {
     let p = &c.path;
     let cj = |z: &rug::Complex| complex_json(z, digits);
     let series = c.series.as_ref().map(|s| json!({ "omega_alpha": cj(&s.omega), "r_alpha": cj(&s.regulator), "error_estimate": sci(s.error) }));
@@ -229,9 +291,27 @@ pub fn periods_json(family: &str, c: &crate::periods::Comparison, digits: u32, b
 }
 
 /// `regwave periods` as a table.
-pub fn periods_table(family: &str, a: &str, c: &crate::periods::Comparison, digits: u32, bits: u32, elapsed_s: f64) -> String {
+pub fn periods_table(
+    family: &str,
+    a: &str,
+    c: &crate::periods::Comparison,
+    digits: u32,
+    bits: u32,
+    elapsed_s: f64,
+) -> String {
     let p = &c.path;
-    let z = |z: &rug::Complex| format!("{} {}{} i", decimal(z.real(), digits), if z.imag().is_sign_negative() { "-" } else { "+" }, decimal(&Float::with_val(z.prec().0, z.imag().abs_ref()), digits));
+    let z = |z: &rug::Complex| {
+        format!(
+            "{} {}{} i",
+            decimal(z.real(), digits),
+            if z.imag().is_sign_negative() {
+                "-"
+            } else {
+                "+"
+            },
+            decimal(&Float::with_val(z.prec().0, z.imag().abs_ref()), digits)
+        )
+    };
     let mut out = format!("family {family}, modulus a = {a}: periods of phi + a = 0 ({bits} bits, {elapsed_s:.2} s)\n\n");
     let rows = [
         ("Omega_alpha (path)", z(&p.alpha.omega)),
@@ -246,10 +326,22 @@ pub fn periods_table(family: &str, a: &str, c: &crate::periods::Comparison, digi
     }
     match (&c.series, c.agreement_digits) {
         (Some(s), Some(d)) => {
-            out.push_str(&format!("  {:<20} {}\n  {:<20} {}\n", "Omega_alpha (series)", z(&s.omega), "R_alpha (series)", z(&s.regulator)));
-            out.push_str(&format!("\nseries and path agree to {:.1} digits for Omega_alpha and R_alpha.\n", d));
+            out.push_str(&format!(
+                "  {:<20} {}\n  {:<20} {}\n",
+                "Omega_alpha (series)",
+                z(&s.omega),
+                "R_alpha (series)",
+                z(&s.regulator)
+            ));
+            out.push_str(&format!(
+                "\nseries and path agree to {:.1} digits for Omega_alpha and R_alpha.\n",
+                d
+            ));
         }
-        _ => out.push_str(&format!("\nno series: {}\n", c.series_note.clone().unwrap_or_default())),
+        _ => out.push_str(&format!(
+            "\nno series: {}\n",
+            c.series_note.clone().unwrap_or_default()
+        )),
     }
     out.push_str(&format!(
         "beta: loop around the branch points {:.4}{:+.4}i and {:.4}{:+.4}i{}\n",
@@ -257,13 +349,23 @@ pub fn periods_table(family: &str, a: &str, c: &crate::periods::Comparison, digi
         p.beta_loop.branch_points[0][1],
         p.beta_loop.branch_points[1][0],
         p.beta_loop.branch_points[1][1],
-        if p.beta_loop.encloses_puncture { " (enclosing the puncture z = 0)" } else { "" }
+        if p.beta_loop.encloses_puncture {
+            " (enclosing the puncture z = 0)"
+        } else {
+            ""
+        }
     ));
     out
 }
 
 /// `regwave attractors --json`.
-pub fn attractors_json(family: &str, list: &[crate::attractor::Attractor], digits: u32, inputs: Value, elapsed_s: f64) -> Value {
+pub fn attractors_json(
+    family: &str,
+    list: &[crate::attractor::Attractor],
+    digits: u32,
+    inputs: Value,
+    elapsed_s: f64,
+) -> Value {
     let items: Vec<Value> = list
         .iter()
         .map(|a| {
@@ -292,9 +394,21 @@ pub fn attractors_json(family: &str, list: &[crate::attractor::Attractor], digit
 }
 
 /// `regwave attractors` as a table.
-pub fn attractors_table(family: &str, list: &[crate::attractor::Attractor], digits: u32, elapsed_s: f64) -> String {
+pub fn attractors_table(
+    family: &str,
+    list: &[crate::attractor::Attractor],
+    digits: u32,
+    elapsed_s: f64,
+) -> String {
     let mut out = format!("family {family}: attractor moduli (nu(a) integer, level n <-> nu = n + 1), {digits} digits, {elapsed_s:.2} s\n\n");
-    out.push_str(&format!("{:>5} {:>4}  {:<width$}  {}\n", "level", "nu", "a_n", "log a_n", width = (digits as usize + 8).max(12)));
+    out.push_str(&format!(
+        "{:>5} {:>4}  {:<width$}  {}\n",
+        "level",
+        "nu",
+        "a_n",
+        "log a_n",
+        width = (digits as usize + 8).max(12)
+    ));
     for a in list {
         out.push_str(&format!(
             "{:>5} {:>4}  {:<width$}  {}\n",
@@ -305,9 +419,16 @@ pub fn attractors_table(family: &str, list: &[crate::attractor::Attractor], digi
             width = (digits as usize + 8).max(12)
         ));
     }
-    let short: Vec<String> = list.iter().filter(|a| a.digits < digits).map(|a| format!("{} ({} digits)", a.level, a.digits)).collect();
+    let short: Vec<String> = list
+        .iter()
+        .filter(|a| a.digits < digits)
+        .map(|a| format!("{} ({} digits)", a.level, a.digits))
+        .collect();
     if !short.is_empty() {
-        out.push_str(&format!("\nconfirmed to fewer digits than requested: {}\n", short.join(", ")));
+        out.push_str(&format!(
+            "\nconfirmed to fewer digits than requested: {}\n",
+            short.join(", ")
+        ));
     }
     out.push_str("\nDigits shown are those confirmed by a second solve at higher precision (numerical evidence, not proofs).\n");
     out

@@ -33,7 +33,9 @@ pub enum SelectionError {
     Missing,
     #[error("cannot read the level range {text:?}: {reason}; use A..B (inclusive, A ≤ B) or a single level n")]
     Levels { text: String, reason: String },
-    #[error("cannot read the modulus {text:?}: {reason}; give a finite decimal number such as 17.8466")]
+    #[error(
+        "cannot read the modulus {text:?}: {reason}; give a finite decimal number such as 17.8466"
+    )]
     Modulus { text: String, reason: String },
     #[error("the modulus {modulus} is not above the spectral threshold {threshold:.6} (the minimum of phi on x, y > 0); eigenvalues and attractor moduli lie above it")]
     BelowThreshold { modulus: String, threshold: f64 },
@@ -56,14 +58,22 @@ pub struct Selection {
 ///
 /// # Errors
 /// See [`SelectionError`].
-pub fn resolve(family: Option<&str>, vertices: Option<&str>, coefficients: Option<&str>) -> Result<Selection, SelectionError> {
+pub fn resolve(
+    family: Option<&str>,
+    vertices: Option<&str>,
+    coefficients: Option<&str>,
+) -> Result<Selection, SelectionError> {
     let (family, polygon, transform) = match (family, vertices) {
         (Some(_), Some(_)) => return Err(SelectionError::Ambiguous),
         (None, None) => return Err(SelectionError::Missing),
         (Some(id), None) => {
             let f = catalogue::by_id(id)?;
             if !f.applicable {
-                return Err(CatalogueError::NotApplicable { id: f.id, reason: f.reason.unwrap_or("no strip form") }.into());
+                return Err(CatalogueError::NotApplicable {
+                    id: f.id,
+                    reason: f.reason.unwrap_or("no strip form"),
+                }
+                .into());
             }
             (f, f.polygon(), None)
         }
@@ -87,16 +97,27 @@ pub fn resolve(family: Option<&str>, vertices: Option<&str>, coefficients: Optio
             let given = laurent::parse_coefficients(text)?;
             let given = match transform {
                 None => given,
-                Some(m) => given.into_iter().map(|(pt, c)| (apply(&m, pt), c)).collect(),
+                Some(m) => given
+                    .into_iter()
+                    .map(|(pt, c)| (apply(&m, pt), c))
+                    .collect(),
             };
             Laurent::with_coefficients(&polygon, &given)?
         }
     };
-    Ok(Selection { family, polygon, laurent, transform })
+    Ok(Selection {
+        family,
+        polygon,
+        laurent,
+        transform,
+    })
 }
 
 fn apply(m: &Mat2, p: [i64; 2]) -> [i64; 2] {
-    [m[0][0] * p[0] + m[0][1] * p[1], m[1][0] * p[0] + m[1][1] * p[1]]
+    [
+        m[0][0] * p[0] + m[0][1] * p[1],
+        m[1][0] * p[0] + m[1][1] * p[1],
+    ]
 }
 
 /// Parses a real modulus `a` at `bits` bits and checks it lies above the spectral threshold
@@ -105,8 +126,15 @@ fn apply(m: &Mat2, p: [i64; 2]) -> [i64; 2] {
 /// # Errors
 /// [`SelectionError::Modulus`] for malformed or non-finite text,
 /// [`SelectionError::BelowThreshold`].
-pub fn parse_modulus(text: &str, bits: u32, laurent: &Laurent) -> Result<rug::Float, SelectionError> {
-    let err = |reason: &str| SelectionError::Modulus { text: text.to_string(), reason: reason.to_string() };
+pub fn parse_modulus(
+    text: &str,
+    bits: u32,
+    laurent: &Laurent,
+) -> Result<rug::Float, SelectionError> {
+    let err = |reason: &str| SelectionError::Modulus {
+        text: text.to_string(),
+        reason: reason.to_string(),
+    };
     let parsed = rug::Float::parse(text.trim()).map_err(|_| err("not a decimal number"))?;
     let a = rug::Float::with_val(bits, parsed);
     if !a.is_finite() {
@@ -114,7 +142,10 @@ pub fn parse_modulus(text: &str, bits: u32, laurent: &Laurent) -> Result<rug::Fl
     }
     let (_, threshold) = laurent.classical_minimum();
     if a.to_f64() <= threshold {
-        return Err(SelectionError::BelowThreshold { modulus: text.trim().to_string(), threshold });
+        return Err(SelectionError::BelowThreshold {
+            modulus: text.trim().to_string(),
+            threshold,
+        });
     }
     Ok(a)
 }
@@ -124,9 +155,19 @@ pub fn parse_modulus(text: &str, bits: u32, laurent: &Laurent) -> Result<rug::Fl
 /// # Errors
 /// [`SelectionError::Levels`] for malformed, negative, empty or reversed ranges.
 pub fn parse_levels(text: &str) -> Result<RangeInclusive<usize>, SelectionError> {
-    let err = |reason: &str| SelectionError::Levels { text: text.to_string(), reason: reason.to_string() };
+    let err = |reason: &str| SelectionError::Levels {
+        text: text.to_string(),
+        reason: reason.to_string(),
+    };
     let t = text.trim();
-    let num = |s: &str| s.trim().parse::<usize>().map_err(|_| err(&format!("{:?} is not a level (a whole number ≥ 0)", s.trim())));
+    let num = |s: &str| {
+        s.trim().parse::<usize>().map_err(|_| {
+            err(&format!(
+                "{:?} is not a level (a whole number ≥ 0)",
+                s.trim()
+            ))
+        })
+    };
     let (a, b) = match t.split_once("..") {
         Some((a, b)) => {
             let b = b.strip_prefix('=').unwrap_or(b);

@@ -63,7 +63,11 @@ pub enum SpectrumError {
     #[error("the level range is empty")]
     EmptyLevels,
     #[error("basis size {basis} is too small for level {level}: use at least {needed}")]
-    BasisTooSmall { basis: usize, level: usize, needed: usize },
+    BasisTooSmall {
+        basis: usize,
+        level: usize,
+        needed: usize,
+    },
     #[error("the truncated operator lost positive definiteness at pivot {pivot} with {bits} bits: working precision too low")]
     PrecisionTooLow { pivot: usize, bits: u32 },
     #[error("inverse iteration did not converge in {iterations} iterations (last relative change {change:e})")]
@@ -88,7 +92,13 @@ pub struct SpectrumOptions {
 
 impl Default for SpectrumOptions {
     fn default() -> Self {
-        SpectrumOptions { levels: 0..=0, basis: 200, max_basis: 450, digits: 20, squeeze: 1.0 }
+        SpectrumOptions {
+            levels: 0..=0,
+            basis: 200,
+            max_basis: 450,
+            digits: 20,
+            squeeze: 1.0,
+        }
     }
 }
 
@@ -163,17 +173,32 @@ pub fn frame(laurent: &Laurent, squeeze: f64) -> Frame {
     let (f1, f2) = (l1.powf(-0.5), l2.powf(-0.5));
     let scale = (l1 * l2).powf(0.25);
     let symplectic = [
-        [scale * (cs * cs * f1 + sn * sn * f2), scale * cs * sn * (f1 - f2)],
-        [scale * cs * sn * (f1 - f2), scale * (sn * sn * f1 + cs * cs * f2)],
+        [
+            scale * (cs * cs * f1 + sn * sn * f2),
+            scale * cs * sn * (f1 - f2),
+        ],
+        [
+            scale * cs * sn * (f1 - f2),
+            scale * (sn * sn * f1 + cs * cs * f2),
+        ],
     ];
-    let mut frame = Frame { centre, threshold, symplectic, squeeze, mirror: None };
+    let mut frame = Frame {
+        centre,
+        threshold,
+        symplectic,
+        squeeze,
+        mirror: None,
+    };
     if let Some(g) = mirror_symmetry(laurent) {
         // z ↦ gᵀz preserves H, so in the rounded frame it is M = S⁻¹gᵀS, orthogonal with
         // det −1: the reflection across the line at angle φ, 2φ = atan2(M₁₀, M₀₀). Rotating by
         // φ makes it (r', p') ↦ (r', −p').
         let s = frame.symplectic;
         let inv = [[s[1][1], -s[0][1]], [-s[1][0], s[0][0]]];
-        let gt = [[g[0][0] as f64, g[1][0] as f64], [g[0][1] as f64, g[1][1] as f64]];
+        let gt = [
+            [g[0][0] as f64, g[1][0] as f64],
+            [g[0][1] as f64, g[1][1] as f64],
+        ];
         let m = mat_mul(&mat_mul(&inv, &gt), &s);
         let phi = 0.5 * m[1][0].atan2(m[0][0]);
         let rot = [[phi.cos(), -phi.sin()], [phi.sin(), phi.cos()]];
@@ -223,7 +248,9 @@ pub fn mirror_symmetry(laurent: &Laurent) -> Option<[[i64; 2]; 2]> {
 impl Frame {
     /// S at `prec` bits, rescaled so that det S = 1 at that precision.
     fn symplectic_mp(&self, prec: u32) -> [[Float; 2]; 2] {
-        let s = self.symplectic.map(|row| row.map(|x| Float::with_val(prec, x)));
+        let s = self
+            .symplectic
+            .map(|row| row.map(|x| Float::with_val(prec, x)));
         let det = Float::with_val(prec, &s[0][0] * &s[1][1] - &s[0][1] * &s[1][0]);
         let k = det.sqrt().recip();
         s.map(|row| row.map(|x| x * &k))
@@ -237,10 +264,13 @@ impl Frame {
         let mut raw: Vec<(Float, Float, Float)> = terms
             .iter()
             .map(|&([m1, m2], c)| {
-                let shift = Float::with_val(prec, m1) * self.centre[0] + Float::with_val(prec, m2) * self.centre[1];
+                let shift = Float::with_val(prec, m1) * self.centre[0]
+                    + Float::with_val(prec, m2) * self.centre[1];
                 let weight = shift.exp() * c;
-                let alpha = Float::with_val(prec, &s[0][0] * m1) + Float::with_val(prec, &s[1][0] * m2);
-                let beta = Float::with_val(prec, &s[0][1] * m1) + Float::with_val(prec, &s[1][1] * m2);
+                let alpha =
+                    Float::with_val(prec, &s[0][0] * m1) + Float::with_val(prec, &s[1][0] * m2);
+                let beta =
+                    Float::with_val(prec, &s[0][1] * m1) + Float::with_val(prec, &s[1][1] * m2);
                 (weight, alpha, beta)
             })
             .collect();
@@ -250,7 +280,10 @@ impl Frame {
             for i in 0..terms.len() {
                 let [m1, m2] = terms[i].0;
                 let gm = [g[0][0] * m1 + g[0][1] * m2, g[1][0] * m1 + g[1][1] * m2];
-                let j = terms.iter().position(|t| t.0 == gm).expect("mirror maps terms to terms");
+                let j = terms
+                    .iter()
+                    .position(|t| t.0 == gm)
+                    .expect("mirror maps terms to terms");
                 if j == i {
                     raw[i].2 = Float::new(prec);
                 } else if j > i {
@@ -285,7 +318,10 @@ impl Frame {
         let s = self.symplectic;
         let det = s[0][0] * s[1][1] - s[0][1] * s[1][0];
         // S⁻¹ rows.
-        let inv = [[s[1][1] / det, -s[0][1] / det], [-s[1][0] / det, s[0][0] / det]];
+        let inv = [
+            [s[1][1] / det, -s[0][1] / det],
+            [-s[1][0] / det, s[0][0] / det],
+        ];
         let q = self.squeeze;
         let norm = (2.0 * HBAR).sqrt();
         let k1 = Complex64::new(inv[0][0] / q, q * inv[1][0]) / norm;
@@ -300,7 +336,9 @@ impl Frame {
         let x = r - self.centre[0];
         let quad = k1 / (i * HBAR * k2);
         let gamma = -quad.re;
-        let log0 = 0.25 * (gamma / std::f64::consts::PI).ln() + 0.5 * quad * x * x + i * self.centre[1] * x / HBAR;
+        let log0 = 0.25 * (gamma / std::f64::consts::PI).ln()
+            + 0.5 * quad * x * x
+            + i * self.centre[1] * x / HBAR;
         let up = k1.conj() - k2.conj() * k1 / k2;
         let back = k2.conj() / k2;
         // Scaled recurrence: values = stored · e^{scale}.
@@ -431,7 +469,10 @@ fn cholesky(h: &mut HermitianMatrix, prec: u32) -> Result<(), SpectrumError> {
             }
         }
         if pivot <= 0 {
-            return Err(SpectrumError::PrecisionTooLow { pivot: j, bits: prec });
+            return Err(SpectrumError::PrecisionTooLow {
+                pivot: j,
+                bits: prec,
+            });
         }
         pivot.sqrt_mut();
         let inv = Float::with_val(prec, pivot.recip_ref());
@@ -451,23 +492,27 @@ fn cholesky(h: &mut HermitianMatrix, prec: u32) -> Result<(), SpectrumError> {
             h.im[j * n + j] = Float::new(prec);
             let (upper_im, lower_im) = h.im.split_at_mut((j + 1) * n);
             let row_j_im = &upper_im[j * n..j * n + j];
-            lower_re.par_chunks_mut(n).zip(lower_im.par_chunks_mut(n)).with_min_len(4).for_each(|(rr, ri)| {
-                let mut acc_re = rr[j].clone();
-                let mut acc_im = ri[j].clone();
-                for k in 0..j {
-                    // L_ik · conj(L_jk) = (a + ib)(c − id) = (ac + bd) + i(bc − ad).
-                    let (a, b) = (&rr[k], &ri[k]);
-                    let (c, d) = (&row_j_re[k], &row_j_im[k]);
-                    acc_re -= a * c;
-                    acc_re -= b * d;
-                    acc_im -= b * c;
-                    acc_im += a * d;
-                }
-                acc_re *= &inv;
-                acc_im *= &inv;
-                rr[j] = acc_re;
-                ri[j] = acc_im;
-            });
+            lower_re
+                .par_chunks_mut(n)
+                .zip(lower_im.par_chunks_mut(n))
+                .with_min_len(4)
+                .for_each(|(rr, ri)| {
+                    let mut acc_re = rr[j].clone();
+                    let mut acc_im = ri[j].clone();
+                    for k in 0..j {
+                        // L_ik · conj(L_jk) = (a + ib)(c − id) = (ac + bd) + i(bc − ad).
+                        let (a, b) = (&rr[k], &ri[k]);
+                        let (c, d) = (&row_j_re[k], &row_j_im[k]);
+                        acc_re -= a * c;
+                        acc_re -= b * d;
+                        acc_im -= b * c;
+                        acc_im += a * d;
+                    }
+                    acc_re *= &inv;
+                    acc_im *= &inv;
+                    rr[j] = acc_re;
+                    ri[j] = acc_im;
+                });
         }
     }
     Ok(())
@@ -525,10 +570,9 @@ fn solve_lower(l: &HermitianMatrix, re: &mut [Float], im: &mut [Float], prec: u3
 }
 
 /// Solves `Lᴴ x = y` in place (backward substitution, column-oriented over the rows of L).
-fn solve_upper(l: &HermitianMatrix, re: &mut [Float], im: &mut [Float], prec: u32) {
+fn solve_upper(l: &HermitianMatrix, re: &mut [Float], im: &mut [Float]) {
     let n = l.n;
     let real = l.is_real();
-    let _ = prec;
     for i in (0..n).rev() {
         let ri = i * n;
         re[i] /= &l.re[ri + i];
@@ -592,17 +636,43 @@ fn inner(ar: &[Float], ai: &[Float], br: &[Float], bi: &[Float], prec: u32) -> (
 /// T_pq with a diagonal unitary, then applies the real rotation that zeroes it ("Matrix
 /// Computations", 4th ed., §8.5). Rotations are skipped when |T_pq| is below the working
 /// precision relative to the diagonal. A real T costs no complex arithmetic.
-fn hermitian_eigen(tr: &[Float], ti: &[Float], b: usize, prec: u32) -> Vec<(Float, Vec<Float>, Vec<Float>)> {
+fn hermitian_eigen(
+    tr: &[Float],
+    ti: &[Float],
+    b: usize,
+    prec: u32,
+) -> Vec<(Float, Vec<Float>, Vec<Float>)> {
     let mut ar = tr.to_vec();
     let mut ai = ti.to_vec();
     let real = ai.iter().all(|x| x.is_zero());
-    let mut vr: Vec<Float> = (0..b * b).map(|i| Float::with_val(prec, (i / b == i % b) as u32)).collect();
+    let mut vr: Vec<Float> = (0..b * b)
+        .map(|i| Float::with_val(prec, (i / b == i % b) as u32))
+        .collect();
     let mut vi: Vec<Float> = vec![Float::new(prec); b * b];
     let eps = Float::with_val(prec, Float::i_exp(1, 8 - prec as i32));
-    let mut f = [Float::new(prec), Float::new(prec), Float::new(prec), Float::new(prec), Float::new(prec)];
-    let (mut x, mut y, mut modulus, mut bound) = (Float::new(prec), Float::new(prec), Float::new(prec), Float::new(prec));
+    let mut f = [
+        Float::new(prec),
+        Float::new(prec),
+        Float::new(prec),
+        Float::new(prec),
+        Float::new(prec),
+    ];
+    let (mut x, mut y, mut modulus, mut bound) = (
+        Float::new(prec),
+        Float::new(prec),
+        Float::new(prec),
+        Float::new(prec),
+    );
     // (u_i, u_j) ← (c u_i − s u_j, s u_i + c u_j) for real c, s.
-    fn rotate(m: &mut [Float], i: usize, j: usize, c: &Float, s: &Float, x: &mut Float, y: &mut Float) {
+    fn rotate(
+        m: &mut [Float],
+        i: usize,
+        j: usize,
+        c: &Float,
+        s: &Float,
+        x: &mut Float,
+        y: &mut Float,
+    ) {
         x.assign(c * &m[i]);
         *x -= s * &m[j];
         y.assign(s * &m[i]);
@@ -611,7 +681,15 @@ fn hermitian_eigen(tr: &[Float], ti: &[Float], b: usize, prec: u32) -> Vec<(Floa
         std::mem::swap(&mut m[j], y);
     }
     // (re, im) of entry k ← (re, im) · (cr + i ci).
-    fn phase(re: &mut [Float], im: &mut [Float], k: usize, cr: &Float, ci: &Float, x: &mut Float, y: &mut Float) {
+    fn phase(
+        re: &mut [Float],
+        im: &mut [Float],
+        k: usize,
+        cr: &Float,
+        ci: &Float,
+        x: &mut Float,
+        y: &mut Float,
+    ) {
         x.assign(&re[k] * cr);
         *x -= &im[k] * ci;
         y.assign(&re[k] * ci);
@@ -690,7 +768,11 @@ fn hermitian_eigen(tr: &[Float], ti: &[Float], b: usize, prec: u32) -> Vec<(Floa
         }
     }
     let mut order: Vec<usize> = (0..b).collect();
-    order.sort_by(|&i, &j| ar[j * b + j].partial_cmp(&ar[i * b + i]).unwrap_or(std::cmp::Ordering::Equal));
+    order.sort_by(|&i, &j| {
+        ar[j * b + j]
+            .partial_cmp(&ar[i * b + i])
+            .unwrap_or(std::cmp::Ordering::Equal)
+    });
     order
         .into_iter()
         .map(|c| {
@@ -770,7 +852,9 @@ fn lowest_eigenpairs(
     for iter in 1..=max_iter {
         // W = L⁻ᴴ Z.
         let mut w = z.clone();
-        w.re.par_iter_mut().zip(w.im.par_iter_mut()).for_each(|(r, i)| solve_upper(l, r, i, prec));
+        w.re.par_iter_mut()
+            .zip(w.im.par_iter_mut())
+            .for_each(|(r, i)| solve_upper(l, r, i));
         // T = Wᴴ W = Zᴴ K Z.
         let mut tr = vec![zero.clone(); b * b];
         let mut ti = vec![zero.clone(); b * b];
@@ -785,7 +869,10 @@ fn lowest_eigenpairs(
         }
         let eig = hermitian_eigen(&tr, &ti, b, prec);
         // Ritz vectors of H: X = W V (unnormalized); next Z = orth(L⁻¹ W V).
-        let mut x = Block { re: vec![vec![zero.clone(); n]; b], im: vec![vec![zero.clone(); n]; b] };
+        let mut x = Block {
+            re: vec![vec![zero.clone(); n]; b],
+            im: vec![vec![zero.clone(); n]; b],
+        };
         for (c, (_, vr, vi)) in eig.iter().enumerate() {
             for (p, (a, bb)) in vr.iter().zip(vi).enumerate() {
                 for i in 0..n {
@@ -796,29 +883,52 @@ fn lowest_eigenpairs(
                 }
             }
         }
-        let values: Vec<Float> = eig.iter().map(|(mu, _, _)| Float::with_val(prec, mu.recip_ref())).collect();
+        let values: Vec<Float> = eig
+            .iter()
+            .map(|(mu, _, _)| Float::with_val(prec, mu.recip_ref()))
+            .collect();
         let approx: Vec<f64> = values[..count].iter().map(|v| v.to_f64()).collect();
         if let Some(prev) = &previous {
-            change = approx.iter().zip(prev).map(|(a, p)| ((a - p) / a).abs()).fold(0.0, f64::max);
+            change = approx
+                .iter()
+                .zip(prev)
+                .map(|(a, p)| ((a - p) / a).abs())
+                .fold(0.0, f64::max);
             if change < tol || (change == 0.0) {
                 let mut vectors = x;
                 for c in 0..b {
-                    let (nr, _) = inner(&vectors.re[c], &vectors.im[c], &vectors.re[c], &vectors.im[c], prec);
+                    let (nr, _) = inner(
+                        &vectors.re[c],
+                        &vectors.im[c],
+                        &vectors.re[c],
+                        &vectors.im[c],
+                        prec,
+                    );
                     let inv = nr.sqrt().recip();
                     for v in vectors.re[c].iter_mut().chain(vectors.im[c].iter_mut()) {
                         *v *= &inv;
                     }
                 }
-                return Ok(Eigenpairs { values: values[..count].to_vec(), vectors, iterations: iter });
+                return Ok(Eigenpairs {
+                    values: values[..count].to_vec(),
+                    vectors,
+                    iterations: iter,
+                });
             }
         }
         previous = Some(approx);
         let mut next = x;
-        next.re.par_iter_mut().zip(next.im.par_iter_mut()).for_each(|(r, i)| solve_lower(l, r, i, prec));
+        next.re
+            .par_iter_mut()
+            .zip(next.im.par_iter_mut())
+            .for_each(|(r, i)| solve_lower(l, r, i, prec));
         orthonormalize(&mut next, prec);
         z = next;
     }
-    Err(SpectrumError::NoConvergence { iterations: max_iter, change })
+    Err(SpectrumError::NoConvergence {
+        iterations: max_iter,
+        change,
+    })
 }
 
 /// Result of one basis size.
@@ -845,24 +955,45 @@ fn solve_basis(
     let real = h.is_real();
     cholesky(&mut h, bits)?;
     let e = lowest_eigenpairs(&h, count, digits, bits, seed)?;
-    Ok(Solve { values: e.values, vectors: e.vectors, bits, real, iterations: e.iterations })
+    Ok(Solve {
+        values: e.values,
+        vectors: e.vectors,
+        bits,
+        real,
+        iterations: e.iterations,
+    })
 }
 
 /// The N×N truncated operator in the frame's oscillator basis, assembled at `bits` and
 /// rounded to f64 (for cross-checks with general-purpose linear algebra at small N).
-pub fn truncated_matrix_f64(laurent: &Laurent, frame: &Frame, n: usize, bits: u32) -> nalgebra::DMatrix<Complex64> {
+pub fn truncated_matrix_f64(
+    laurent: &Laurent,
+    frame: &Frame,
+    n: usize,
+    bits: u32,
+) -> nalgebra::DMatrix<Complex64> {
     let terms = frame.terms(laurent, bits);
     let h = assemble(&terms, n, bits, frame.mirror.is_some());
     nalgebra::DMatrix::from_fn(n, n, |i, j| {
         let (r, c, sign) = if i >= j { (i, j, 1.0) } else { (j, i, -1.0) };
-        let im = if h.is_real() { 0.0 } else { h.im[r * n + c].to_f64() * sign };
+        let im = if h.is_real() {
+            0.0
+        } else {
+            h.im[r * n + c].to_f64() * sign
+        };
         Complex64::new(h.re[r * n + c].to_f64(), im)
     })
 }
 
 /// Lowest eigenvalues of the N×N truncation by this module's own multiprecision solver (no
 /// convergence ladder): the counterpart of [`truncated_matrix_f64`].
-pub fn truncated_eigenvalues(laurent: &Laurent, frame: &Frame, n: usize, count: usize, digits: u32) -> Result<Vec<Float>, SpectrumError> {
+pub fn truncated_eigenvalues(
+    laurent: &Laurent,
+    frame: &Frame,
+    n: usize,
+    count: usize,
+    digits: u32,
+) -> Result<Vec<Float>, SpectrumError> {
     Ok(solve_basis(laurent, frame, n, count, digits, None)?.values)
 }
 
@@ -886,7 +1017,11 @@ pub fn solve(laurent: &Laurent, options: &SpectrumOptions) -> Result<Spectrum, S
     }
     let needed = minimum_basis(hi);
     if options.basis < needed {
-        return Err(SpectrumError::BasisTooSmall { basis: options.basis, level: hi, needed });
+        return Err(SpectrumError::BasisTooSmall {
+            basis: options.basis,
+            level: hi,
+            needed,
+        });
     }
     let frame = frame(laurent, options.squeeze);
     let count = hi + 1;
@@ -894,15 +1029,44 @@ pub fn solve(laurent: &Laurent, options: &SpectrumOptions) -> Result<Spectrum, S
     let mut bases = vec![n];
     // A small basis first seeds the inverse iteration of the first real solve (fewer steps).
     let pilot_n = (n / 3).max(needed);
-    let pilot = if pilot_n < n { Some(solve_basis(laurent, &frame, pilot_n, count, options.digits.min(12), None)?) } else { None };
-    let mut coarse = solve_basis(laurent, &frame, n, count, options.digits, pilot.as_ref().map(|p| &p.vectors))?;
+    let pilot = if pilot_n < n {
+        Some(solve_basis(
+            laurent,
+            &frame,
+            pilot_n,
+            count,
+            options.digits.min(12),
+            None,
+        )?)
+    } else {
+        None
+    };
+    let mut coarse = solve_basis(
+        laurent,
+        &frame,
+        n,
+        count,
+        options.digits,
+        pilot.as_ref().map(|p| &p.vectors),
+    )?;
     let target = 10f64.powi(-(options.digits as i32));
     let (best, errors) = loop {
         n = next_basis(n);
         bases.push(n);
-        let fine = solve_basis(laurent, &frame, n, count, options.digits, Some(&coarse.vectors))?;
+        let fine = solve_basis(
+            laurent,
+            &frame,
+            n,
+            count,
+            options.digits,
+            Some(&coarse.vectors),
+        )?;
         let errors: Vec<f64> = (0..count)
-            .map(|k| Float::with_val(fine.bits, &coarse.values[k] - &fine.values[k]).to_f64().abs())
+            .map(|k| {
+                Float::with_val(fine.bits, &coarse.values[k] - &fine.values[k])
+                    .to_f64()
+                    .abs()
+            })
             .collect();
         let converged = (lo..=hi).all(|k| errors[k] <= target * fine.values[k].to_f64().abs());
         if converged || next_basis(n) > options.max_basis {
@@ -912,12 +1076,27 @@ pub fn solve(laurent: &Laurent, options: &SpectrumOptions) -> Result<Spectrum, S
     };
     let levels = (lo..=hi)
         .map(|k| {
-            let eigenvector =
-                best.vectors.re[k].iter().zip(&best.vectors.im[k]).map(|(r, i)| Complex64::new(r.to_f64(), i.to_f64())).collect();
-            Level { level: k, value: best.values[k].clone(), error_estimate: errors[k], eigenvector }
+            let eigenvector = best.vectors.re[k]
+                .iter()
+                .zip(&best.vectors.im[k])
+                .map(|(r, i)| Complex64::new(r.to_f64(), i.to_f64()))
+                .collect();
+            Level {
+                level: k,
+                value: best.values[k].clone(),
+                error_estimate: errors[k],
+                eigenvector,
+            }
         })
         .collect();
-    Ok(Spectrum { frame, bases, working_bits: best.bits, real_matrix: best.real, iterations: best.iterations, levels })
+    Ok(Spectrum {
+        frame,
+        bases,
+        working_bits: best.bits,
+        real_matrix: best.real,
+        iterations: best.iterations,
+        levels,
+    })
 }
 
 impl Spectrum {
@@ -933,7 +1112,11 @@ impl Spectrum {
 /// The trace of `H_N^{-k}` (k = 1, 2) of the truncated operator: a lower bound of `Tr Ô^{-k}`
 /// that increases with N (Rayleigh–Ritz), computed from the Cholesky factor
 /// (`Tr H⁻¹ = ‖L⁻¹‖²_F`, `Tr H⁻² = ‖L⁻ᴴL⁻¹‖²_F`).
-pub fn trace_of_inverse_powers(laurent: &Laurent, basis: usize, digits: u32) -> Result<(Float, Float), SpectrumError> {
+pub fn trace_of_inverse_powers(
+    laurent: &Laurent,
+    basis: usize,
+    digits: u32,
+) -> Result<(Float, Float), SpectrumError> {
     let frame = frame(laurent, 1.0);
     let probe = frame.terms(laurent, 64);
     let bits = working_bits(&probe, basis, frame.threshold, digits);
@@ -943,7 +1126,10 @@ pub fn trace_of_inverse_powers(laurent: &Laurent, basis: usize, digits: u32) -> 
     let n = basis;
     // Columns of L⁻¹: solve L y = e_k.
     let zero = Float::new(bits);
-    let mut inv = Block { re: vec![vec![zero.clone(); n]; n], im: vec![vec![zero.clone(); n]; n] };
+    let mut inv = Block {
+        re: vec![vec![zero.clone(); n]; n],
+        im: vec![vec![zero.clone(); n]; n],
+    };
     for k in 0..n {
         inv.re[k][k] = Float::with_val(bits, 1);
         solve_lower(&h, &mut inv.re[k], &mut inv.im[k], bits);
@@ -957,7 +1143,7 @@ pub fn trace_of_inverse_powers(laurent: &Laurent, basis: usize, digits: u32) -> 
     let mut t2 = Float::new(bits);
     for k in 0..n {
         let (mut re, mut im) = (inv.re[k].clone(), inv.im[k].clone());
-        solve_upper(&h, &mut re, &mut im, bits);
+        solve_upper(&h, &mut re, &mut im);
         let (r, _) = inner(&re, &im, &re, &im, bits);
         t2 += r;
     }
@@ -977,8 +1163,13 @@ mod tests {
         // ∫ conj(ψ_m) ψ_n dr = δ_mn for the metaplectic image of the Hermite functions
         // (common practice: trapezoidal rule is spectrally accurate for Gaussian-decaying
         // analytic integrands).
-        let frame =
-            Frame { centre: [0.3, -0.2], threshold: 1.0, symplectic: [[1.3, 0.4], [0.4, (1.0 + 0.16) / 1.3]], squeeze: 0.8, mirror: None };
+        let frame = Frame {
+            centre: [0.3, -0.2],
+            threshold: 1.0,
+            symplectic: [[1.3, 0.4], [0.4, (1.0 + 0.16) / 1.3]],
+            squeeze: 0.8,
+            mirror: None,
+        };
         let (a, b, h) = (-40.0, 40.0, 0.02);
         let count = 12;
         let mut gram = vec![Complex64::new(0.0, 0.0); count * count];
@@ -995,7 +1186,11 @@ mod tests {
         for m in 0..count {
             for n in 0..count {
                 let want = if m == n { 1.0 } else { 0.0 };
-                assert!((gram[m * count + n] - want).norm() < 1e-10, "({m},{n}) {}", gram[m * count + n]);
+                assert!(
+                    (gram[m * count + n] - want).norm() < 1e-10,
+                    "({m},{n}) {}",
+                    gram[m * count + n]
+                );
             }
         }
     }
@@ -1004,7 +1199,13 @@ mod tests {
     fn small_basis_upper_bounds_decrease() {
         // Rayleigh–Ritz: truncated eigenvalues decrease as the basis grows (common practice of
         // the method, no source).
-        let opts = SpectrumOptions { levels: 0..=2, basis: 40, max_basis: 100, digits: 40, squeeze: 1.0 };
+        let opts = SpectrumOptions {
+            levels: 0..=2,
+            basis: 40,
+            max_basis: 100,
+            digits: 40,
+            squeeze: 1.0,
+        };
         let s = solve(&f0(), &opts).unwrap();
         assert_eq!(s.bases, vec![40, 60, 90]);
         assert!(s.real_matrix);
@@ -1014,7 +1215,12 @@ mod tests {
             let v = solve_basis(&f0(), &frame, n, 3, 30, None).unwrap().values;
             if let Some(prev) = last {
                 for k in 0..3 {
-                    assert!(v[k] < prev[k], "level {k}: N={n} gives {} ≥ {}", v[k], prev[k]);
+                    assert!(
+                        v[k] < prev[k],
+                        "level {k}: N={n} gives {} ≥ {}",
+                        v[k],
+                        prev[k]
+                    );
                 }
             }
             last = Some(v);

@@ -11,8 +11,16 @@ fn family(id: &str) -> Laurent {
 
 fn assert_prefix(value: &Float, reference: &str, digits: usize) {
     let s = value.to_string_radix(10, Some(digits + 6));
-    let want: String = reference.chars().filter(|c| c.is_ascii_digit()).take(digits).collect();
-    let got: String = s.chars().filter(|c| c.is_ascii_digit()).take(digits).collect();
+    let want: String = reference
+        .chars()
+        .filter(|c| c.is_ascii_digit())
+        .take(digits)
+        .collect();
+    let got: String = s
+        .chars()
+        .filter(|c| c.is_ascii_digit())
+        .take(digits)
+        .collect();
     assert_eq!(got, want, "{s} vs {reference}");
 }
 
@@ -21,20 +29,36 @@ fn checked_values_at_thirty_digits() {
     // MATH.md §4 checked values (computed independently of this project, 24 digits shown).
     let t = std::time::Instant::now();
     let cases = [
-        ("F0", ["17.846643118044799282389997", "70.428043469428353462422178"]),
-        ("P2", ["12.970039821793337437623954", "50.310469082394391151368474"]),
-        ("dP3", ["36.512388457960298416625508", "167.892587542034465264653056"]),
+        (
+            "F0",
+            ["17.846643118044799282389997", "70.428043469428353462422178"],
+        ),
+        (
+            "P2",
+            ["12.970039821793337437623954", "50.310469082394391151368474"],
+        ),
+        (
+            "dP3",
+            [
+                "36.512388457960298416625508",
+                "167.892587542034465264653056",
+            ],
+        ),
     ];
     for (id, refs) in cases {
         let at = attractor::solve_levels(&family(id), 0..=1, 30).unwrap();
         for (a, r) in at.iter().zip(refs) {
-            assert!(a.digits >= 28, "{id} level {}: {} digits", a.level, a.digits);
+            assert!(
+                a.digits >= 28,
+                "{id} level {}: {} digits",
+                a.level,
+                a.digits
+            );
             assert_prefix(&a.modulus, r, 24);
         }
     }
     eprintln!("{:?}", t.elapsed());
 }
-
 
 #[test]
 fn attractor_moduli_are_the_independent_eigenvalues_for_every_family() {
@@ -45,7 +69,13 @@ fn attractor_moduli_are_the_independent_eigenvalues_for_every_family() {
     for f in catalogue::all().iter().filter(|f| f.applicable) {
         let l = family(f.id);
         let main = ["F0", "P2", "dP3"].contains(&f.id);
-        let opts = SpectrumOptions { levels: 0..=5, basis: 200, max_basis: if main { 675 } else { 450 }, digits: 16, squeeze: 1.0 };
+        let opts = SpectrumOptions {
+            levels: 0..=5,
+            basis: 200,
+            max_basis: if main { 675 } else { 450 },
+            digits: 16,
+            squeeze: 1.0,
+        };
         let spec = spectrum::solve(&l, &opts).unwrap();
         let at = attractor::solve_levels(&l, 0..=5, 20).unwrap();
         for (s, a) in spec.levels.iter().zip(&at) {
@@ -61,7 +91,13 @@ fn attractor_moduli_are_the_independent_eigenvalues_for_every_family() {
                 s.error_estimate
             );
             if main {
-                assert!(rel < 1e-12, "{} level {}: only {:.1} digits", f.id, s.level, -rel.log10());
+                assert!(
+                    rel < 1e-12,
+                    "{} level {}: only {:.1} digits",
+                    f.id,
+                    s.level,
+                    -rel.log10()
+                );
             }
         }
     }
@@ -78,9 +114,16 @@ fn forty_digits_survive_doubling_the_working_precision() {
         let base = attractor::solve_levels_at(&l, 0..=3, 40, bits).unwrap();
         let doubled = attractor::solve_levels_at(&l, 0..=3, 40, 2 * bits).unwrap();
         for (x, y) in base.iter().zip(&doubled) {
-            let rel = (Float::with_val(2 * bits, &x.modulus - &y.modulus) / &y.modulus).to_f64().abs();
+            let rel = (Float::with_val(2 * bits, &x.modulus - &y.modulus) / &y.modulus)
+                .to_f64()
+                .abs();
             assert!(rel < 1e-38, "{id} level {}: {rel:e}", x.level);
-            assert!(x.digits >= 39, "{id} level {}: {} digits", x.level, x.digits);
+            assert!(
+                x.digits >= 39,
+                "{id} level {}: {} digits",
+                x.level,
+                x.digits
+            );
         }
     }
 }
@@ -90,16 +133,26 @@ fn spectral_asymptotics_from_the_perturbative_volumes() {
     // log a_n − π√(n + 5/6) → 0 for F0 and log a_n − π√(2(4n+3)/9) → 0 for P2, exponentially
     // ("Topological strings from quantum mechanics", arXiv:1410.3382): the gap shrinks with n.
     let pi = std::f64::consts::PI;
-    let cases: [(&str, fn(f64) -> f64); 2] =
-        [("F0", |n| std::f64::consts::PI * (n + 5.0 / 6.0).sqrt()), ("P2", |n| std::f64::consts::PI * (2.0 * (4.0 * n + 3.0) / 9.0).sqrt())];
+    let cases: [(&str, fn(f64) -> f64); 2] = [
+        ("F0", |n| std::f64::consts::PI * (n + 5.0 / 6.0).sqrt()),
+        ("P2", |n| {
+            std::f64::consts::PI * (2.0 * (4.0 * n + 3.0) / 9.0).sqrt()
+        }),
+    ];
     let _ = pi;
     for (id, volume) in cases {
         let at = attractor::solve_levels(&family(id), 0..=9, 16).unwrap();
-        let gaps: Vec<f64> = at.iter().map(|a| (a.log_modulus.to_f64() - volume(a.level as f64)).abs()).collect();
+        let gaps: Vec<f64> = at
+            .iter()
+            .map(|a| (a.log_modulus.to_f64() - volume(a.level as f64)).abs())
+            .collect();
         for w in gaps.windows(2) {
             assert!(w[1] < w[0], "{id}: gaps {gaps:?} do not shrink");
         }
-        assert!(gaps[9] < 1e-3 * gaps[0].max(1e-300) || gaps[9] < 1e-6, "{id}: gaps {gaps:?}");
+        assert!(
+            gaps[9] < 1e-3 * gaps[0].max(1e-300) || gaps[9] < 1e-6,
+            "{id}: gaps {gaps:?}"
+        );
     }
 }
 

@@ -4,7 +4,10 @@
 use std::process::{Command, Output};
 
 fn regwave(args: &[&str]) -> Output {
-    Command::new(env!("CARGO_BIN_EXE_regwave")).args(args).output().expect("run regwave")
+    Command::new(env!("CARGO_BIN_EXE_regwave"))
+        .args(args)
+        .output()
+        .expect("run regwave")
 }
 
 fn stderr(o: &Output) -> String {
@@ -15,7 +18,12 @@ fn stderr(o: &Output) -> String {
 fn rejects(args: &[&str], needle: &str) {
     let o = regwave(args);
     let e = stderr(&o);
-    assert_eq!(o.status.code(), Some(2), "{args:?}: exit {:?}, stderr {e}", o.status.code());
+    assert_eq!(
+        o.status.code(),
+        Some(2),
+        "{args:?}: exit {:?}, stderr {e}",
+        o.status.code()
+    );
     assert!(e.contains(needle), "{args:?}: stderr lacks {needle:?}: {e}");
     assert!(!e.contains("panicked"), "{args:?} panicked: {e}");
 }
@@ -42,10 +50,19 @@ fn families_lists_fifteen_plus_one() {
 
 #[test]
 fn spectrum_json_contract() {
-    let o = regwave(&["spectrum", "--family", "F0", "--levels", "0..1", "--basis", "80", "--json"]);
+    let o = regwave(&[
+        "spectrum", "--family", "F0", "--levels", "0..1", "--basis", "80", "--json",
+    ]);
     assert!(o.status.success(), "{}", stderr(&o));
     let v: serde_json::Value = serde_json::from_slice(&o.stdout).unwrap();
-    for key in ["family", "eigenvalues", "tool_version", "inputs", "elapsed_s", "precision_bits"] {
+    for key in [
+        "family",
+        "eigenvalues",
+        "tool_version",
+        "inputs",
+        "elapsed_s",
+        "precision_bits",
+    ] {
         assert!(v.get(key).is_some(), "missing {key}");
     }
     let ev = v["eigenvalues"].as_array().unwrap();
@@ -60,7 +77,16 @@ fn spectrum_json_contract() {
 #[test]
 fn spectrum_from_vertices_matches_the_family() {
     // A GL₂(Z) image of P2 that is not in strip form: identified and mapped to a strip form.
-    let o = regwave(&["spectrum", "--vertices", "(2,1),(1,1),(-3,-2)", "--levels", "0", "--basis", "60", "--json"]);
+    let o = regwave(&[
+        "spectrum",
+        "--vertices",
+        "(2,1),(1,1),(-3,-2)",
+        "--levels",
+        "0",
+        "--basis",
+        "60",
+        "--json",
+    ]);
     assert!(o.status.success(), "{}", stderr(&o));
     let v: serde_json::Value = serde_json::from_slice(&o.stdout).unwrap();
     assert_eq!(v["family"], "P2");
@@ -68,38 +94,153 @@ fn spectrum_from_vertices_matches_the_family() {
 
 #[test]
 fn bad_vertex_lists() {
-    rejects(&["spectrum", "--vertices", "(0,0),(1,1),(2,2)", "--levels", "0"], "do not span a polygon");
-    rejects(&["spectrum", "--vertices", "(1,0)", "--levels", "0"], "do not span a polygon");
+    rejects(
+        &[
+            "spectrum",
+            "--vertices",
+            "(0,0),(1,1),(2,2)",
+            "--levels",
+            "0",
+        ],
+        "do not span a polygon",
+    );
+    rejects(
+        &["spectrum", "--vertices", "(1,0)", "--levels", "0"],
+        "do not span a polygon",
+    );
     // Not convex: (0,0) lies strictly inside; duplicates and edge points are fine.
-    rejects(&["spectrum", "--vertices", "(1,0),(0,0),(0,1),(-1,-1)", "--levels", "0"], "not convex");
-    let o = regwave(&["spectrum", "--vertices", "(0,1),(-1,-1),(1,-1),(0,-1),(0,1)", "--levels", "0", "--basis", "40"]);
-    assert!(o.status.success(), "duplicates and edge points are allowed: {}", stderr(&o));
+    rejects(
+        &[
+            "spectrum",
+            "--vertices",
+            "(1,0),(0,0),(0,1),(-1,-1)",
+            "--levels",
+            "0",
+        ],
+        "not convex",
+    );
+    let o = regwave(&[
+        "spectrum",
+        "--vertices",
+        "(0,1),(-1,-1),(1,-1),(0,-1),(0,1)",
+        "--levels",
+        "0",
+        "--basis",
+        "40",
+    ]);
+    assert!(
+        o.status.success(),
+        "duplicates and edge points are allowed: {}",
+        stderr(&o)
+    );
     // Two interior points: the triangle (−1,−1), (3,−1), (−1,2) contains (0,0) and (1,0).
-    rejects(&["spectrum", "--vertices", "(-1,-1),(3,-1),(-1,2)", "--levels", "0"], "not reflexive");
-    rejects(&["spectrum", "--vertices", "(1,0),(0,1),(-1,", "--levels", "0"], "cannot read vertices");
-    rejects(&["spectrum", "--vertices", "(a,b),(0,1),(-1,-1)", "--levels", "0"], "cannot read vertices");
+    rejects(
+        &[
+            "spectrum",
+            "--vertices",
+            "(-1,-1),(3,-1),(-1,2)",
+            "--levels",
+            "0",
+        ],
+        "not reflexive",
+    );
+    rejects(
+        &[
+            "spectrum",
+            "--vertices",
+            "(1,0),(0,1),(-1,",
+            "--levels",
+            "0",
+        ],
+        "cannot read vertices",
+    );
+    rejects(
+        &[
+            "spectrum",
+            "--vertices",
+            "(a,b),(0,1),(-1,-1)",
+            "--levels",
+            "0",
+        ],
+        "cannot read vertices",
+    );
 }
 
 #[test]
 fn width_three_triangle_has_no_strip_form() {
-    rejects(&["spectrum", "--vertices", "(2,-1),(-1,2),(-1,-1)", "--levels", "0"], "strip form");
-    rejects(&["spectrum", "--family", "P2*", "--levels", "0"], "not applicable");
+    rejects(
+        &[
+            "spectrum",
+            "--vertices",
+            "(2,-1),(-1,2),(-1,-1)",
+            "--levels",
+            "0",
+        ],
+        "strip form",
+    );
+    rejects(
+        &["spectrum", "--family", "P2*", "--levels", "0"],
+        "not applicable",
+    );
 }
 
 #[test]
 fn non_binomial_coefficients_are_not_tempered() {
-    rejects(&["spectrum", "--family", "dP3", "--coefficients", "(1,0)=2", "--levels", "0"], "not tempered");
-    rejects(&["spectrum", "--family", "F0", "--coefficients", "(0,0)=1", "--levels", "0"], "constant term");
+    rejects(
+        &[
+            "spectrum",
+            "--family",
+            "dP3",
+            "--coefficients",
+            "(1,0)=2",
+            "--levels",
+            "0",
+        ],
+        "not tempered",
+    );
+    rejects(
+        &[
+            "spectrum",
+            "--family",
+            "F0",
+            "--coefficients",
+            "(0,0)=1",
+            "--levels",
+            "0",
+        ],
+        "constant term",
+    );
 }
 
 #[test]
 fn unknown_family_and_bad_ranges() {
-    rejects(&["spectrum", "--family", "K3", "--levels", "0"], "unknown family");
-    rejects(&["spectrum", "--family", "F0", "--levels", "5..2"], "reversed");
-    rejects(&["spectrum", "--family", "F0", "--levels", "x"], "level range");
-    rejects(&["spectrum", "--family", "F0", "--digits", "3"], "--digits 3");
+    rejects(
+        &["spectrum", "--family", "K3", "--levels", "0"],
+        "unknown family",
+    );
+    rejects(
+        &["spectrum", "--family", "F0", "--levels", "5..2"],
+        "reversed",
+    );
+    rejects(
+        &["spectrum", "--family", "F0", "--levels", "x"],
+        "level range",
+    );
+    rejects(
+        &["spectrum", "--family", "F0", "--digits", "3"],
+        "--digits 3",
+    );
     rejects(&["spectrum", "--levels", "0"], "--family");
-    rejects(&["spectrum", "--family", "F0", "--vertices", "(1,0),(0,1),(-1,-1)"], "not both");
+    rejects(
+        &[
+            "spectrum",
+            "--family",
+            "F0",
+            "--vertices",
+            "(1,0),(0,1),(-1,-1)",
+        ],
+        "not both",
+    );
 }
 
 #[test]
@@ -107,7 +248,17 @@ fn tour_writes_its_files() {
     let dir = std::env::temp_dir().join(format!("regwave-tour-{}", std::process::id()));
     let o = regwave(&["tour", "--out", dir.to_str().unwrap()]);
     assert!(o.status.success(), "{}", stderr(&o));
-    for f in ["report.md", "families.json", "families.txt", "spectrum-F0.json", "spectrum-P2.json", "spectrum-dP3.json", "attractors-F0.json", "attractors-P2.json", "attractors-dP3.json"] {
+    for f in [
+        "report.md",
+        "families.json",
+        "families.txt",
+        "spectrum-F0.json",
+        "spectrum-P2.json",
+        "spectrum-dP3.json",
+        "attractors-F0.json",
+        "attractors-P2.json",
+        "attractors-dP3.json",
+    ] {
         assert!(dir.join(f).is_file(), "missing {f}");
     }
     let _ = std::fs::remove_dir_all(&dir);
@@ -115,33 +266,78 @@ fn tour_writes_its_files() {
 
 #[test]
 fn unwritable_output_is_a_clear_error() {
-    rejects(&["tour", "--out", "/proc/regwave-cannot-write-here"], "cannot");
+    rejects(
+        &["tour", "--out", "/proc/regwave-cannot-write-here"],
+        "cannot",
+    );
 }
 
 #[test]
 fn attractors_json_contract_and_values() {
-    let o = regwave(&["attractors", "--family", "F0", "--levels", "0..1", "--digits", "30", "--json"]);
+    let o = regwave(&[
+        "attractors",
+        "--family",
+        "F0",
+        "--levels",
+        "0..1",
+        "--digits",
+        "30",
+        "--json",
+    ]);
     assert!(o.status.success(), "{}", stderr(&o));
     let v: serde_json::Value = serde_json::from_slice(&o.stdout).unwrap();
-    for key in ["family", "attractors", "digits", "tool_version", "inputs", "elapsed_s"] {
+    for key in [
+        "family",
+        "attractors",
+        "digits",
+        "tool_version",
+        "inputs",
+        "elapsed_s",
+    ] {
         assert!(v.get(key).is_some(), "missing {key}");
     }
     let list = v["attractors"].as_array().unwrap();
-    for (item, want) in list.iter().zip(["17.846643118044799282389997", "70.428043469428353462422178"]) {
+    for (item, want) in list
+        .iter()
+        .zip(["17.846643118044799282389997", "70.428043469428353462422178"])
+    {
         for key in ["level", "nu", "modulus", "log_modulus"] {
             assert!(item.get(key).is_some(), "missing {key}");
         }
         // MATH.md §4 checked values.
-        assert!(item["modulus"].as_str().unwrap().starts_with(want), "{item}");
+        assert!(
+            item["modulus"].as_str().unwrap().starts_with(want),
+            "{item}"
+        );
     }
 }
 
 #[test]
 fn periods_json_contract() {
-    let o = regwave(&["periods", "--family", "P2", "--modulus", "12.970039821793337437623954", "--digits", "30", "--json"]);
+    let o = regwave(&[
+        "periods",
+        "--family",
+        "P2",
+        "--modulus",
+        "12.970039821793337437623954",
+        "--digits",
+        "30",
+        "--json",
+    ]);
     assert!(o.status.success(), "{}", stderr(&o));
     let v: serde_json::Value = serde_json::from_slice(&o.stdout).unwrap();
-    for key in ["omega_alpha", "omega_beta", "r_alpha", "r_beta", "tau", "nu", "agreement_digits", "tool_version", "inputs", "elapsed_s"] {
+    for key in [
+        "omega_alpha",
+        "omega_beta",
+        "r_alpha",
+        "r_beta",
+        "tau",
+        "nu",
+        "agreement_digits",
+        "tool_version",
+        "inputs",
+        "elapsed_s",
+    ] {
         assert!(v.get(key).is_some(), "missing {key}");
     }
     assert!(v["agreement_digits"].as_f64().unwrap() >= 30.0);
@@ -151,13 +347,42 @@ fn periods_json_contract() {
 
 #[test]
 fn bad_moduli_digits_and_levels() {
-    rejects(&["periods", "--family", "F0", "--modulus", "3.5"], "spectral threshold");
-    rejects(&["periods", "--family", "F0", "--modulus", "inf"], "not finite");
-    rejects(&["periods", "--family", "F0", "--modulus", "nan"], "modulus");
-    rejects(&["periods", "--family", "F0", "--modulus", "abc"], "cannot read the modulus");
-    rejects(&["periods", "--family", "F0", "--modulus", "20", "--digits", "7"], "--digits 7");
-    rejects(&["attractors", "--family", "F0", "--digits", "1001"], "--digits 1001");
-    rejects(&["attractors", "--family", "F0", "--levels", "3..1"], "reversed");
+    rejects(
+        &["periods", "--family", "F0", "--modulus", "3.5"],
+        "spectral threshold",
+    );
+    rejects(
+        &["periods", "--family", "F0", "--modulus", "inf"],
+        "not finite",
+    );
+    rejects(
+        &["periods", "--family", "F0", "--modulus", "nan"],
+        "modulus",
+    );
+    rejects(
+        &["periods", "--family", "F0", "--modulus", "abc"],
+        "cannot read the modulus",
+    );
+    rejects(
+        &[
+            "periods",
+            "--family",
+            "F0",
+            "--modulus",
+            "20",
+            "--digits",
+            "7",
+        ],
+        "--digits 7",
+    );
+    rejects(
+        &["attractors", "--family", "F0", "--digits", "1001"],
+        "--digits 1001",
+    );
+    rejects(
+        &["attractors", "--family", "F0", "--levels", "3..1"],
+        "reversed",
+    );
     rejects(&["attractors", "--family", "F0", "--levels", ""], "level");
     // The one reflexive class without a strip form has no β rule: not applicable.
     rejects(&["attractors", "--family", "P2*"], "not applicable");
@@ -188,7 +413,18 @@ fn build_writes_loadable_files() {
     // header r,re_psi,im_psi (one numpy.loadtxt(..., delimiter=",", skiprows=1) each) and a JSON
     // sidecar. The poles of dP3 at ±2πi are located and written as nan, never sampled.
     let dir = temp_dir("build");
-    let o = regwave(&["build", "--family", "dP3", "--level", "2", "--grid", "-12:12:481", "--strip", "--out", dir.to_str().unwrap()]);
+    let o = regwave(&[
+        "build",
+        "--family",
+        "dP3",
+        "--level",
+        "2",
+        "--grid",
+        "-12:12:481",
+        "--strip",
+        "--out",
+        dir.to_str().unwrap(),
+    ]);
     assert!(o.status.success(), "{}", stderr(&o));
     let main = read_csv(&dir.join("psi.csv"));
     assert_eq!(main.len(), 481);
@@ -200,16 +436,41 @@ fn build_writes_loadable_files() {
         let nans: Vec<f64> = rows.iter().filter(|r| r.1.is_nan()).map(|r| r.0).collect();
         assert_eq!(nans, vec![0.0], "{f}: the pole at r = 0 only");
     }
-    let v: serde_json::Value = serde_json::from_str(&std::fs::read_to_string(dir.join("psi.json")).unwrap()).unwrap();
-    for key in ["inputs", "modulus", "lambda", "base_point", "precision_bits", "normalization", "checks", "tool_version", "elapsed_s"] {
+    let v: serde_json::Value =
+        serde_json::from_str(&std::fs::read_to_string(dir.join("psi.json")).unwrap()).unwrap();
+    for key in [
+        "inputs",
+        "modulus",
+        "lambda",
+        "base_point",
+        "precision_bits",
+        "normalization",
+        "checks",
+        "tool_version",
+        "elapsed_s",
+    ] {
         assert!(v.get(key).is_some(), "missing {key}");
     }
     assert!(v["checks"]["eigen_equation_residual_max"].as_f64().unwrap() < 1e-9);
     assert!(v["modulus"].as_str().unwrap().starts_with("534.3440388"));
     // Existing output without --force: refused, files untouched.
     let before = std::fs::read_to_string(dir.join("psi.json")).unwrap();
-    rejects(&["build", "--family", "dP3", "--level", "2", "--out", dir.to_str().unwrap()], "--force");
-    assert_eq!(before, std::fs::read_to_string(dir.join("psi.json")).unwrap());
+    rejects(
+        &[
+            "build",
+            "--family",
+            "dP3",
+            "--level",
+            "2",
+            "--out",
+            dir.to_str().unwrap(),
+        ],
+        "--force",
+    );
+    assert_eq!(
+        before,
+        std::fs::read_to_string(dir.join("psi.json")).unwrap()
+    );
     let _ = std::fs::remove_dir_all(&dir);
 }
 
@@ -218,17 +479,61 @@ fn build_refuses_bad_input() {
     let dir = temp_dir("build-bad");
     let out = dir.to_str().unwrap();
     // Not an attractor modulus: ν and its distance to Z are reported.
-    rejects(&["build", "--family", "F0", "--modulus", "20", "--out", out], "not an attractor modulus: nu =");
-    rejects(&["build", "--family", "F0", "--level", "0", "--grid", "3:-3:10", "--out", out], "reversed");
-    rejects(&["build", "--family", "F0", "--level", "0", "--grid", "1:2", "--out", out], "R0:R1:N");
-    rejects(&["build", "--family", "F0", "--level", "0", "--grid", "0:1:1", "--out", out], "points");
-    rejects(&["build", "--family", "F0", "--level", "0", "--out", "/proc/regwave-no"], "cannot");
+    rejects(
+        &["build", "--family", "F0", "--modulus", "20", "--out", out],
+        "not an attractor modulus: nu =",
+    );
+    rejects(
+        &[
+            "build", "--family", "F0", "--level", "0", "--grid", "3:-3:10", "--out", out,
+        ],
+        "reversed",
+    );
+    rejects(
+        &[
+            "build", "--family", "F0", "--level", "0", "--grid", "1:2", "--out", out,
+        ],
+        "R0:R1:N",
+    );
+    rejects(
+        &[
+            "build", "--family", "F0", "--level", "0", "--grid", "0:1:1", "--out", out,
+        ],
+        "points",
+    );
+    rejects(
+        &[
+            "build",
+            "--family",
+            "F0",
+            "--level",
+            "0",
+            "--out",
+            "/proc/regwave-no",
+        ],
+        "cannot",
+    );
     rejects(&["build", "--family", "F0", "--out", out], "--level");
-    assert!(!dir.exists() || std::fs::read_dir(&dir).unwrap().next().is_none(), "nothing half-written");
+    assert!(
+        !dir.exists() || std::fs::read_dir(&dir).unwrap().next().is_none(),
+        "nothing half-written"
+    );
     // --allow-non-attractor builds anyway and records how far ν is from an integer.
-    let o = regwave(&["build", "--family", "F0", "--modulus", "20", "--allow-non-attractor", "--grid", "-2:2:21", "--out", out]);
+    let o = regwave(&[
+        "build",
+        "--family",
+        "F0",
+        "--modulus",
+        "20",
+        "--allow-non-attractor",
+        "--grid",
+        "-2:2:21",
+        "--out",
+        out,
+    ]);
     assert!(o.status.success(), "{}", stderr(&o));
-    let v: serde_json::Value = serde_json::from_str(&std::fs::read_to_string(dir.join("psi.json")).unwrap()).unwrap();
+    let v: serde_json::Value =
+        serde_json::from_str(&std::fs::read_to_string(dir.join("psi.json")).unwrap()).unwrap();
     assert!(v["nu_distance_to_integer"].as_f64().unwrap() > 1e-3);
     let _ = std::fs::remove_dir_all(&dir);
 }

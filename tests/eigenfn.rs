@@ -21,7 +21,11 @@ fn normalized(values: &[Complex64], h: f64) -> Vec<Complex64> {
 }
 
 fn attractor_moduli(id: &str, levels: std::ops::RangeInclusive<usize>) -> Vec<f64> {
-    attractor::solve_levels(&family(id), levels, 20).unwrap().iter().map(|a| a.modulus.to_f64()).collect()
+    attractor::solve_levels(&family(id), levels, 20)
+        .unwrap()
+        .iter()
+        .map(|a| a.modulus.to_f64())
+        .collect()
 }
 
 #[test]
@@ -32,17 +36,39 @@ fn matches_the_harmonic_oscillator_eigenvectors() {
     for id in ["F0", "P2", "dP3"] {
         let l = family(id);
         let moduli = attractor_moduli(id, 0..=3);
-        let opts = SpectrumOptions { levels: 0..=3, basis: 300, max_basis: 450, digits: 16, squeeze: 1.0 };
+        let opts = SpectrumOptions {
+            levels: 0..=3,
+            basis: 300,
+            max_basis: 450,
+            digits: 16,
+            squeeze: 1.0,
+        };
         let spec = spectrum::solve(&l, &opts).unwrap();
         let h = 0.05;
         let grid: Vec<f64> = (-300..=300).map(|k| k as f64 * h).collect();
         for (lev, &a) in moduli.iter().enumerate() {
             let eig = Eigenfunction::new(&l, Complex64::new(a, 0.0), 15.0, None, 0.3).unwrap();
-            let ours = normalized(&grid.iter().map(|&r| eig.psi(&Complex64::new(r, 0.0)).unwrap()).collect::<Vec<_>>(), h);
-            let ho = normalized(&grid.iter().map(|&r| spec.wavefunction(lev, r).unwrap()).collect::<Vec<_>>(), h);
+            let ours = normalized(
+                &grid
+                    .iter()
+                    .map(|&r| eig.psi(&Complex64::new(r, 0.0)).unwrap())
+                    .collect::<Vec<_>>(),
+                h,
+            );
+            let ho = normalized(
+                &grid
+                    .iter()
+                    .map(|&r| spec.wavefunction(lev, r).unwrap())
+                    .collect::<Vec<_>>(),
+                h,
+            );
             let overlap: Complex64 = ours.iter().zip(&ho).map(|(x, y)| x.conj() * y).sum();
             let phase = overlap / overlap.norm();
-            let diff = ours.iter().zip(&ho).map(|(x, y)| (x * phase - y).norm()).fold(0.0, f64::max);
+            let diff = ours
+                .iter()
+                .zip(&ho)
+                .map(|(x, y)| (x * phase - y).norm())
+                .fold(0.0, f64::max);
             assert!(diff < 1e-9, "{id} level {lev}: max difference {diff:e}");
         }
     }
@@ -59,7 +85,13 @@ fn eigen_equation_with_independently_integrated_shifts() {
         let eig = Eigenfunction::new(&l, Complex64::new(a, 0.0), 15.0, None, 0.3).unwrap();
         let q = QuantumCurve::new(&l).unwrap();
         let ac = Complex64::new(a, 0.0);
-        let scale = (-40..=40).map(|k| eig.psi(&Complex64::new(k as f64 * 0.1, 0.0)).unwrap().norm()).fold(0.0, f64::max);
+        let scale = (-40..=40)
+            .map(|k| {
+                eig.psi(&Complex64::new(k as f64 * 0.1, 0.0))
+                    .unwrap()
+                    .norm()
+            })
+            .fold(0.0, f64::max);
         let mut worst: f64 = 0.0;
         let mut wrong: f64 = 0.0;
         for r in [-2.3, -1.1, -0.45, 0.37, 1.3, 2.9] {
@@ -67,7 +99,13 @@ fn eigen_equation_with_independently_integrated_shifts() {
             let res = q.apply(|w: &Complex64| eig.psi(w).unwrap(), &z, &ac);
             worst = worst.max(res.norm() / scale);
             let k = q.coefficients(&z);
-            let (down, here, up) = (eig.psi(&(z - Complex64::new(0.0, 2.0 * std::f64::consts::PI))).unwrap(), eig.psi(&z).unwrap(), eig.psi(&(z + Complex64::new(0.0, 2.0 * std::f64::consts::PI))).unwrap());
+            let (down, here, up) = (
+                eig.psi(&(z - Complex64::new(0.0, 2.0 * std::f64::consts::PI)))
+                    .unwrap(),
+                eig.psi(&z).unwrap(),
+                eig.psi(&(z + Complex64::new(0.0, 2.0 * std::f64::consts::PI)))
+                    .unwrap(),
+            );
             let flipped = -k.down * down + (k.centre - ac) * here - k.up * up;
             wrong = wrong.max(flipped.norm() / scale);
         }
@@ -87,7 +125,9 @@ fn single_valued_at_the_attractor_and_not_off_it() {
         let a = attractor_moduli(id, 0..=0)[0];
         let defect = |a: f64| -> f64 {
             let e1 = Eigenfunction::new(&l, Complex64::new(a, 0.0), 15.0, None, 0.3).unwrap();
-            let e2 = Eigenfunction::new(&l, Complex64::new(a, 0.0), 15.0, Some(e1.spine + 0.6), -0.8).unwrap();
+            let e2 =
+                Eigenfunction::new(&l, Complex64::new(a, 0.0), 15.0, Some(e1.spine + 0.6), -0.8)
+                    .unwrap();
             let mut worst: f64 = 0.0;
             for r in [-1.7, -0.3, 0.9, 2.2] {
                 let z = Complex64::new(r, 0.0);
@@ -109,7 +149,10 @@ fn single_valued_at_the_attractor_and_not_off_it() {
         let at = defect(a);
         let off = defect(a * (1.0 + 1e-6));
         assert!(at < 1e-10, "{id}: route dependence {at:e} at the attractor");
-        assert!(off > 1e-8, "{id}: route dependence only {off:e} off the attractor");
+        assert!(
+            off > 1e-8,
+            "{id}: route dependence only {off:e} off the attractor"
+        );
     }
 }
 
@@ -126,19 +169,35 @@ fn cauchy_integrals_around_branch_points_vanish_only_at_the_attractor() {
         let cauchy = |a: f64| -> f64 {
             let eig = Eigenfunction::new(&l, Complex64::new(a, 0.0), 15.0, None, 0.3).unwrap();
             let sing = eig.curve().singular_points().unwrap();
-            let b = sing.iter().find(|s| s.kind == SingularKind::Branch && s.z.im.abs() < 2.0 * std::f64::consts::PI - 0.5).unwrap().z;
-            let gap = sing.iter().filter(|s| (s.z - b).norm() > 1e-9).map(|s| (s.z - b).norm()).fold(1.0, f64::min);
+            let b = sing
+                .iter()
+                .find(|s| {
+                    s.kind == SingularKind::Branch
+                        && s.z.im.abs() < 2.0 * std::f64::consts::PI - 0.5
+                })
+                .unwrap()
+                .z;
+            let gap = sing
+                .iter()
+                .filter(|s| (s.z - b).norm() > 1e-9)
+                .map(|s| (s.z - b).norm())
+                .fold(1.0, f64::min);
             let rho = 0.4 * gap;
             let m = 64;
             // Route: along the spine above b + ρ, down to it, then once around the circle.
             let mut path = vec![eig.base.z, Complex64::new(b.re + rho, eig.spine)];
-            path.extend((0..=m).map(|k| b + Complex64::from_polar(rho, 2.0 * std::f64::consts::PI * k as f64 / m as f64)));
+            path.extend((0..=m).map(|k| {
+                b + Complex64::from_polar(rho, 2.0 * std::f64::consts::PI * k as f64 / m as f64)
+            }));
             let values = eig.psi_along(&path).unwrap();
             let on_circle = &values[1..values.len() - 1]; // vertices k = 0..m−1
             let mut integral = Complex64::new(0.0, 0.0);
             for (k, v) in on_circle.iter().enumerate() {
                 let t = 2.0 * std::f64::consts::PI * k as f64 / m as f64;
-                integral += v * Complex64::new(0.0, rho) * Complex64::from_polar(1.0, t) * (2.0 * std::f64::consts::PI / m as f64);
+                integral += v
+                    * Complex64::new(0.0, rho)
+                    * Complex64::from_polar(1.0, t)
+                    * (2.0 * std::f64::consts::PI / m as f64);
             }
             let size = on_circle.iter().map(|v| v.norm()).fold(0.0, f64::max);
             // Single valued around the circle, too.
@@ -148,7 +207,10 @@ fn cauchy_integrals_around_branch_points_vanish_only_at_the_attractor() {
         let at = cauchy(a);
         let off = cauchy(a * (1.0 + 1e-6));
         assert!(at < 1e-10, "{id}: Cauchy defect {at:e} at the attractor");
-        assert!(off > 1e-8, "{id}: Cauchy defect only {off:e} off the attractor");
+        assert!(
+            off > 1e-8,
+            "{id}: Cauchy defect only {off:e} off the attractor"
+        );
     }
 }
 
@@ -159,18 +221,34 @@ fn precision_ladder() {
     use regwave::precision::{bits_for_digits, with_guard};
     use rug::Complex;
     let l = family("F0");
-    let a = attractor::solve_levels(&l, 2..=2, 128).unwrap()[0].modulus.clone();
+    let a = attractor::solve_levels(&l, 2..=2, 128).unwrap()[0]
+        .modulus
+        .clone();
     let ratio = |digits: u32| -> Complex {
         let bits = with_guard(bits_for_digits(digits as f64));
-        let eig = Eigenfunction::new(&l, Complex::with_val(bits, (&a, 0)), digits as f64, None, 0.3).unwrap();
+        let eig = Eigenfunction::new(
+            &l,
+            Complex::with_val(bits, (&a, 0)),
+            digits as f64,
+            None,
+            0.3,
+        )
+        .unwrap();
         let p = eig.psi(&Complex::with_val(bits, 0.3)).unwrap();
         let q = eig.psi(&Complex::with_val(bits, -0.9)).unwrap();
         Complex::with_val(bits, p / q)
     };
     let (r32, r64, r128) = (ratio(32), ratio(64), ratio(128));
-    let rel = |x: &Complex, y: &Complex| Complex::with_val(400, x - y).abs().real().to_f64() / Complex::with_val(400, y.abs_ref()).real().to_f64();
+    let rel = |x: &Complex, y: &Complex| {
+        Complex::with_val(400, x - y).abs().real().to_f64()
+            / Complex::with_val(400, y.abs_ref()).real().to_f64()
+    };
     assert!(rel(&r32, &r64) < 1e-29, "32 vs 64: {:e}", rel(&r32, &r64));
-    assert!(rel(&r64, &r128) < 1e-61, "64 vs 128: {:e}", rel(&r64, &r128));
+    assert!(
+        rel(&r64, &r128) < 1e-61,
+        "64 vs 128: {:e}",
+        rel(&r64, &r128)
+    );
     assert!(rel(&r32, &r128) < 1e-29);
 }
 
@@ -185,16 +263,43 @@ fn level_n_has_n_zeros_between_the_outermost_turning_points() {
     for (n, &a) in moduli.iter().enumerate() {
         let eig = Eigenfunction::new(&l, Complex64::new(a, 0.0), 15.0, None, 0.3).unwrap();
         let sing = eig.curve().singular_points().unwrap();
-        let outer = sing.iter().filter(|s| s.kind == SingularKind::Branch).map(|s| s.z.re.abs()).fold(0.0, f64::max);
-        let grid: Vec<f64> = (0..=2000).map(|k| -outer + 2.0 * outer * k as f64 / 2000.0).collect();
-        let values: Vec<Complex64> = eig.psi_on_line(&grid, 0.0).unwrap().into_iter().map(|v| v.unwrap()).collect();
-        let peak = values.iter().copied().max_by(|x, y| x.norm().total_cmp(&y.norm())).unwrap();
+        let outer = sing
+            .iter()
+            .filter(|s| s.kind == SingularKind::Branch)
+            .map(|s| s.z.re.abs())
+            .fold(0.0, f64::max);
+        let grid: Vec<f64> = (0..=2000)
+            .map(|k| -outer + 2.0 * outer * k as f64 / 2000.0)
+            .collect();
+        let values: Vec<Complex64> = eig
+            .psi_on_line(&grid, 0.0)
+            .unwrap()
+            .into_iter()
+            .map(|v| v.unwrap())
+            .collect();
+        let peak = values
+            .iter()
+            .copied()
+            .max_by(|x, y| x.norm().total_cmp(&y.norm()))
+            .unwrap();
         let phase = peak / peak.norm();
         let real: Vec<f64> = values.iter().map(|v| (v / phase).re).collect();
-        let imag_max = values.iter().map(|v| (v / phase).im.abs()).fold(0.0, f64::max);
-        assert!(imag_max < 1e-8 * peak.norm(), "F0 ψ is real up to a constant: {imag_max:e}");
-        let zeros = real.windows(2).filter(|w| w[0].signum() != w[1].signum()).count();
-        assert_eq!(zeros, n, "level {n}: {zeros} sign changes in [−{outer:.3}, {outer:.3}]");
+        let imag_max = values
+            .iter()
+            .map(|v| (v / phase).im.abs())
+            .fold(0.0, f64::max);
+        assert!(
+            imag_max < 1e-8 * peak.norm(),
+            "F0 ψ is real up to a constant: {imag_max:e}"
+        );
+        let zeros = real
+            .windows(2)
+            .filter(|w| w[0].signum() != w[1].signum())
+            .count();
+        assert_eq!(
+            zeros, n,
+            "level {n}: {zeros} sign changes in [−{outer:.3}, {outer:.3}]"
+        );
     }
 }
 
@@ -215,8 +320,14 @@ fn shift_relation_on_independent_routes() {
         let defect = |a: f64| -> f64 {
             let eig = Eigenfunction::new(&l, Complex64::new(a, 0.0), 15.0, None, 0.3).unwrap();
             let sing = eig.curve().singular_points().unwrap();
-            let pair = periods::beta_loop(eig.curve(), &sing).unwrap().branch_points;
-            let res: Vec<f64> = sing.iter().filter(|s| s.kind == SingularKind::Branch).map(|s| s.z.re).collect();
+            let pair = periods::beta_loop(eig.curve(), &sing)
+                .unwrap()
+                .branch_points;
+            let res: Vec<f64> = sing
+                .iter()
+                .filter(|s| s.kind == SingularKind::Branch)
+                .map(|s| s.z.re)
+                .collect();
             // The other sheet's base was reached around the branch point nearest the base point;
             // the rectangle goes around the other member of the β pair, so that the two together
             // make the β loop.
@@ -225,33 +336,72 @@ fn shift_relation_on_independent_routes() {
                 let near = sing
                     .iter()
                     .filter(|s| s.kind == SingularKind::Branch)
-                    .flat_map(|s| (-1..=1).map(move |k| s.z + Complex64::new(0.0, k as f64 * two_pi)))
+                    .flat_map(|s| {
+                        (-1..=1).map(move |k| s.z + Complex64::new(0.0, k as f64 * two_pi))
+                    })
                     .min_by(|p, q| (p - b).norm().total_cmp(&(q - b).norm()))
                     .unwrap();
                 near.re > b.re
             };
             let zr = if nearest_right {
-                let left = res.iter().copied().filter(|&r| r < pair[0][0] - 1e-9).fold(f64::NEG_INFINITY, f64::max);
-                if left.is_finite() { 0.5 * (left + pair[0][0]) } else { pair[0][0] - 1.0 }
+                let left = res
+                    .iter()
+                    .copied()
+                    .filter(|&r| r < pair[0][0] - 1e-9)
+                    .fold(f64::NEG_INFINITY, f64::max);
+                if left.is_finite() {
+                    0.5 * (left + pair[0][0])
+                } else {
+                    pair[0][0] - 1.0
+                }
             } else {
-                let right = res.iter().copied().filter(|&r| r > pair[1][0] + 1e-9).fold(f64::INFINITY, f64::min);
-                if right.is_finite() { 0.5 * (right + pair[1][0]) } else { pair[1][0] + 1.0 }
+                let right = res
+                    .iter()
+                    .copied()
+                    .filter(|&r| r > pair[1][0] + 1e-9)
+                    .fold(f64::INFINITY, f64::min);
+                if right.is_finite() {
+                    0.5 * (right + pair[1][0])
+                } else {
+                    pair[1][0] + 1.0
+                }
             };
             let c = eig.spine;
             let z = Complex64::new(eig.base.z.re + 0.2, c);
             let here = eig.sheets_along(&[eig.base.z, z]).unwrap();
-            let route = [eig.base.z, Complex64::new(zr, c), Complex64::new(zr, c - two_pi), z - Complex64::new(0.0, two_pi)];
+            let route = [
+                eig.base.z,
+                Complex64::new(zr, c),
+                Complex64::new(zr, c - two_pi),
+                z - Complex64::new(0.0, two_pi),
+            ];
             let below = eig.sheets_along(&route).unwrap();
             // The sheet of `below` with the same y as `here` has the same D (D is 2πi-periodic).
-            let chi_below = if (below.d - here.d).norm() < (below.d + here.d).norm() { below.chi } else { below.chi_other };
+            let chi_below = if (below.d - here.d).norm() < (below.d + here.d).norm() {
+                below.chi
+            } else {
+                below.chi_other
+            };
             let [y1, y2] = eig.curve().roots(&z);
-            let y = if (eig.curve().d(&z, &y1) - here.d).norm() < (eig.curve().d(&z, &y2) - here.d).norm() { y1 } else { y2 };
+            let y = if (eig.curve().d(&z, &y1) - here.d).norm()
+                < (eig.curve().d(&z, &y2) - here.d).norm()
+            {
+                y1
+            } else {
+                y2
+            };
             (chi_below + y * here.chi).norm() / (y * here.chi).norm()
         };
         let at = defect(a);
         let off = defect(a * (1.0 + 1e-6));
-        assert!(at < 1e-9, "{id}: shift relation defect {at:e} at the attractor");
-        assert!(off > 1e-8, "{id}: shift relation still holds ({off:e}) off the attractor");
+        assert!(
+            at < 1e-9,
+            "{id}: shift relation defect {at:e} at the attractor"
+        );
+        assert!(
+            off > 1e-8,
+            "{id}: shift relation still holds ({off:e}) off the attractor"
+        );
     }
 }
 
@@ -272,12 +422,47 @@ fn reality_rules_hold_for_every_family_that_has_one() {
         let a = attractor_moduli(f.id, 1..=1)[0];
         let eig = Eigenfunction::new(&l, Complex64::new(a, 0.0), 15.0, None, 0.3).unwrap();
         let grid: Vec<f64> = (-160..=160).map(|j| j as f64 * 0.05).collect();
-        let g: Vec<Complex64> =
-            eig.psi_on_line(&grid, 0.0).unwrap().into_iter().zip(&grid).map(|(v, &r)| v.unwrap() * reality_factor(k, r)).collect();
-        let peak = g.iter().copied().max_by(|x, y| x.norm().total_cmp(&y.norm())).unwrap();
+        let g: Vec<Complex64> = eig
+            .psi_on_line(&grid, 0.0)
+            .unwrap()
+            .into_iter()
+            .zip(&grid)
+            .map(|(v, &r)| v.unwrap() * reality_factor(k, r))
+            .collect();
+        let peak = g
+            .iter()
+            .copied()
+            .max_by(|x, y| x.norm().total_cmp(&y.norm()))
+            .unwrap();
         let phase = peak / peak.norm();
         let defect = g.iter().map(|v| (v / phase).im.abs()).fold(0.0, f64::max) / peak.norm();
-        assert!(defect < 1e-9, "{} (k = {k}): imaginary part {defect:e}", f.id);
+        assert!(
+            defect < 1e-9,
+            "{} (k = {k}): imaginary part {defect:e}",
+            f.id
+        );
+        // Negative companion: the wrong rule (k + 1) leaves a large imaginary part.
+        let wrong: Vec<Complex64> = g
+            .iter()
+            .zip(&grid)
+            .map(|(v, &r)| v * reality_factor(1, r))
+            .collect();
+        let wpeak = wrong
+            .iter()
+            .copied()
+            .max_by(|x, y| x.norm().total_cmp(&y.norm()))
+            .unwrap();
+        let wphase = wpeak / wpeak.norm();
+        let wdefect = wrong
+            .iter()
+            .map(|v| (v / wphase).im.abs())
+            .fold(0.0, f64::max)
+            / wpeak.norm();
+        assert!(
+            wdefect > 1e-3,
+            "{}: rule k + 1 also looks real ({wdefect:e})",
+            f.id
+        );
     }
 }
 
@@ -294,15 +479,39 @@ fn zeros_of_the_reality_corrected_eigenfunctions_of_p2_and_dp3() {
         for (n, &a) in attractor_moduli(id, 0..=5).iter().enumerate() {
             let eig = Eigenfunction::new(&l, Complex64::new(a, 0.0), 15.0, None, 0.3).unwrap();
             let sing = eig.curve().singular_points().unwrap();
-            let res: Vec<f64> = sing.iter().filter(|s| s.kind == SingularKind::Branch).map(|s| s.z.re).collect();
-            let (lo, hi) = (res.iter().copied().fold(f64::INFINITY, f64::min), res.iter().copied().fold(f64::NEG_INFINITY, f64::max));
-            let grid: Vec<f64> = (0..=2000).map(|j| lo + (hi - lo) * j as f64 / 2000.0).collect();
-            let g: Vec<Complex64> =
-                eig.psi_on_line(&grid, 0.0).unwrap().into_iter().zip(&grid).map(|(v, &r)| v.unwrap() * reality_factor(k, r)).collect();
-            let peak = g.iter().copied().max_by(|x, y| x.norm().total_cmp(&y.norm())).unwrap();
+            let res: Vec<f64> = sing
+                .iter()
+                .filter(|s| s.kind == SingularKind::Branch)
+                .map(|s| s.z.re)
+                .collect();
+            let (lo, hi) = (
+                res.iter().copied().fold(f64::INFINITY, f64::min),
+                res.iter().copied().fold(f64::NEG_INFINITY, f64::max),
+            );
+            let grid: Vec<f64> = (0..=2000)
+                .map(|j| lo + (hi - lo) * j as f64 / 2000.0)
+                .collect();
+            let g: Vec<Complex64> = eig
+                .psi_on_line(&grid, 0.0)
+                .unwrap()
+                .into_iter()
+                .zip(&grid)
+                .map(|(v, &r)| v.unwrap() * reality_factor(k, r))
+                .collect();
+            let peak = g
+                .iter()
+                .copied()
+                .max_by(|x, y| x.norm().total_cmp(&y.norm()))
+                .unwrap();
             let real: Vec<f64> = g.iter().map(|v| (v / (peak / peak.norm())).re).collect();
-            let zeros = real.windows(2).filter(|w| w[0].signum() != w[1].signum()).count();
-            assert_eq!(zeros, n, "{id} level {n}: {zeros} sign changes in [{lo:.3}, {hi:.3}]");
+            let zeros = real
+                .windows(2)
+                .filter(|w| w[0].signum() != w[1].signum())
+                .count();
+            assert_eq!(
+                zeros, n,
+                "{id} level {n}: {zeros} sign changes in [{lo:.3}, {hi:.3}]"
+            );
         }
     }
 }
@@ -319,7 +528,12 @@ fn decay_rates_on_the_real_line() {
         let norm = eig.normalization(0.05).unwrap();
         for side in 0..2 {
             let rel = (norm.decay[side] - want[side]).abs() / want[side];
-            assert!(rel < 0.02, "{id} side {side}: rate {} vs {}", norm.decay[side], want[side]);
+            assert!(
+                rel < 0.02,
+                "{id} side {side}: rate {} vs {}",
+                norm.decay[side],
+                want[side]
+            );
         }
     }
 }

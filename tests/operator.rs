@@ -15,13 +15,30 @@ fn shift_coefficients_are_a_minus_b_and_c() {
         let laurent = Laurent::tempered(&f.polygon());
         let parts = laurent.strip_parts().unwrap();
         let q = QuantumCurve::new(&laurent).unwrap();
-        for r in [Complex64::new(0.3, 0.1), Complex64::new(-1.2, 2.0), Complex64::new(2.5, -0.7)] {
+        for r in [
+            Complex64::new(0.3, 0.1),
+            Complex64::new(-1.2, 2.0),
+            Complex64::new(2.5, -0.7),
+        ] {
             let x = -r.exp();
             let k = q.coefficients(&r);
-            let scale = 1.0 + parts.a.eval(&x).norm() + parts.b.eval(&x).norm() + parts.c.eval(&x).norm();
-            assert!((k.down - parts.a.eval(&x)).norm() < 1e-13 * scale, "{} A", f.id);
-            assert!((k.centre + parts.b.eval(&x)).norm() < 1e-13 * scale, "{} B", f.id);
-            assert!((k.up - parts.c.eval(&x)).norm() < 1e-13 * scale, "{} C", f.id);
+            let scale =
+                1.0 + parts.a.eval(&x).norm() + parts.b.eval(&x).norm() + parts.c.eval(&x).norm();
+            assert!(
+                (k.down - parts.a.eval(&x)).norm() < 1e-13 * scale,
+                "{} A",
+                f.id
+            );
+            assert!(
+                (k.centre + parts.b.eval(&x)).norm() < 1e-13 * scale,
+                "{} B",
+                f.id
+            );
+            assert!(
+                (k.up - parts.c.eval(&x)).norm() < 1e-13 * scale,
+                "{} C",
+                f.id
+            );
             let rm = Complex::with_val(200, (r.re, r.im));
             let xm = -(rm.clone().exp());
             let km = q.coefficients(&rm);
@@ -52,8 +69,15 @@ fn gaussian_expectation_fixes_the_weyl_sign() {
         let expected: f64 = laurent
             .terms()
             .iter()
-            .map(|&([m1, m2], c)| c as f64 * ((m1 * m1) as f64 / 4.0 + (m2 * m2) as f64 * std::f64::consts::PI.powi(2)).exp())
+            .map(|&([m1, m2], c)| {
+                c as f64
+                    * ((m1 * m1) as f64 / 4.0 + (m2 * m2) as f64 * std::f64::consts::PI.powi(2))
+                        .exp()
+            })
             .sum();
-        assert!((integral - expected).norm() < 1e-9 * expected, "{id}: {integral} vs {expected}");
+        assert!(
+            (integral - expected).norm() < 1e-9 * expected,
+            "{id}: {integral} vs {expected}"
+        );
     }
 }

@@ -54,13 +54,18 @@ fn f0_alpha_period_is_an_agm_to_forty_digits() {
     for a in [17.846643118044799, 50.0, 300.0] {
         let (series, path) = alpha_both(&l, a, bits);
         let af = Float::with_val(bits, a);
-        let kp = (1u32 - Float::with_val(bits, 16u32) / Float::with_val(bits, af.square_ref())).sqrt();
+        let kp =
+            (1u32 - Float::with_val(bits, 16u32) / Float::with_val(bits, af.square_ref())).sqrt();
         let agm = Float::with_val(bits, Float::with_val(bits, 1).agm_ref(&kp));
         let want = Complex::with_val(bits, agm.recip());
         let two_pi_i = Complex::with_val(bits, (0, Float::with_val(bits, Constant::Pi) * 2u32));
         for (name, w) in [("series", &series.omega), ("path", &path.omega)] {
             let got = Complex::with_val(bits, -w.clone() * &af) / &two_pi_i;
-            assert!(rel(&got, &want) < 1e-40, "{name} at a = {a}: {:e}", rel(&got, &want));
+            assert!(
+                rel(&got, &want) < 1e-40,
+                "{name} at a = {a}: {:e}",
+                rel(&got, &want)
+            );
         }
     }
 }
@@ -94,8 +99,16 @@ fn mahler_measures_of_the_f0_family() {
     let m8_path = Complex::with_val(bits, &path8.regulator / &minus_two_pi_i);
     let m2 = jensen_mahler_k2(bits);
     let four_m2 = Complex::with_val(bits, m2 * 4u32);
-    assert!(rel(&m8, &four_m2) < 1e-35, "m(8) vs 4 m(2): {:e}", rel(&m8, &four_m2));
-    assert!(rel(&m8_path, &four_m2) < 1e-35, "path m(8) vs 4 m(2): {:e}", rel(&m8_path, &four_m2));
+    assert!(
+        rel(&m8, &four_m2) < 1e-35,
+        "m(8) vs 4 m(2): {:e}",
+        rel(&m8, &four_m2)
+    );
+    assert!(
+        rel(&m8_path, &four_m2) < 1e-35,
+        "path m(8) vs 4 m(2): {:e}",
+        rel(&m8_path, &four_m2)
+    );
     // m(4) = 4G/π, G Catalan's constant ("Modular Mahler measures I", 1999): the conifold a = 4,
     // approached from above by path integration at a = 4 + 10⁻³⁰ (m(4 + ε) − m(4) = O(ε log ε)).
     let a = Complex::with_val(bits, 4) + Float::with_val(bits, Float::i_exp(1, -100));
@@ -105,7 +118,11 @@ fn mahler_measures_of_the_f0_family() {
     let m4 = Complex::with_val(bits, &near.regulator / &minus_two_pi_i);
     let catalan = Float::with_val(bits, Constant::Catalan);
     let want = Complex::with_val(bits, catalan * 4u32 / Float::with_val(bits, Constant::Pi));
-    assert!(rel(&m4, &want) < 1e-25, "m(4) vs 4G/π: {:e}", rel(&m4, &want));
+    assert!(
+        rel(&m4, &want) < 1e-25,
+        "m(4) vs 4G/π: {:e}",
+        rel(&m4, &want)
+    );
 }
 
 #[test]
@@ -124,11 +141,23 @@ fn homologous_beta_loops_give_the_same_periods() {
         let narrow = periods::stadium(b0, b1, 0.02);
         let two = periods::loop_periods(&curve, &sing, &narrow, &march).unwrap();
         // Same orientation and sheet up to a common sign.
-        let sign = if rel(&one.omega, &two.omega) < 1e-3 { 1 } else { -1 };
+        let sign = if rel(&one.omega, &two.omega) < 1e-3 {
+            1
+        } else {
+            -1
+        };
         let two_omega = Complex::with_val(bits, &two.omega * sign);
         let two_reg = Complex::with_val(bits, &two.regulator * sign);
-        assert!(rel(&two_omega, &one.omega) < 1e-30, "{id} Ω: {:e}", rel(&two_omega, &one.omega));
-        assert!(rel(&two_reg, &one.regulator) < 1e-30, "{id} R: {:e}", rel(&two_reg, &one.regulator));
+        assert!(
+            rel(&two_omega, &one.omega) < 1e-30,
+            "{id} Ω: {:e}",
+            rel(&two_omega, &one.omega)
+        );
+        assert!(
+            rel(&two_reg, &one.regulator) < 1e-30,
+            "{id} R: {:e}",
+            rel(&two_reg, &one.regulator)
+        );
     }
 }
 
@@ -150,7 +179,10 @@ fn loops_around_a_puncture_give_integer_multiples_of_two_pi_i_squared() {
         .collect();
     let p = periods::loop_periods(&curve, &sing, &circle, &march).unwrap();
     let two_pi_i = Complex::with_val(bits, (0, Float::with_val(bits, Constant::Pi) * 2u32));
-    let k = Complex::with_val(bits, &p.regulator / Complex::with_val(bits, two_pi_i.square_ref()));
+    let k = Complex::with_val(
+        bits,
+        &p.regulator / Complex::with_val(bits, two_pi_i.square_ref()),
+    );
     let nearest = k.real().to_f64().round();
     assert!(nearest != 0.0, "the large root has a pole there");
     let dev = (k.clone() - Complex::with_val(bits, nearest)).abs_f64();

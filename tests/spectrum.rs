@@ -12,7 +12,9 @@ fn family(id: &str) -> Laurent {
 
 /// Relative difference of `x` from the decimal reference `reference`, parsed at x's precision.
 fn rel(x: &Float, reference: &Float) -> f64 {
-    (Float::with_val(x.prec(), x - reference) / reference).to_f64().abs()
+    (Float::with_val(x.prec(), x - reference) / reference)
+        .to_f64()
+        .abs()
 }
 
 fn parse(prec: u32, s: &str) -> Float {
@@ -24,28 +26,53 @@ fn f0_ground_state_energy() {
     // Local F0 at ħ = 2π: E₀ = log a₀ = 2.88181542992629678 ("Topological strings from quantum
     // mechanics", 2014, arXiv:1410.3382; value from memory of that paper, confirmed
     // independently to these digits). Assert ≥ 12 digits; the estimate must cover the error.
-    let opts = SpectrumOptions { levels: 0..=0, basis: 200, max_basis: 300, digits: 16, squeeze: 1.0 };
+    let opts = SpectrumOptions {
+        levels: 0..=0,
+        basis: 200,
+        max_basis: 300,
+        digits: 16,
+        squeeze: 1.0,
+    };
     let s = spectrum::solve(&family("F0"), &opts).unwrap();
     let l = &s.levels[0];
     let e0 = Float::with_val(s.working_bits, l.value.ln_ref());
     let r = rel(&e0, &parse(s.working_bits, "2.88181542992629678"));
     assert!(r < 1e-12 * 2.0, "E0 relative error {r:e}");
-    assert!(l.error_estimate < 1e-12 * l.value.to_f64(), "estimate {}", l.error_estimate);
+    assert!(
+        l.error_estimate < 1e-12 * l.value.to_f64(),
+        "estimate {}",
+        l.error_estimate
+    );
 }
 
 #[test]
 fn p2_two_lowest_energies() {
     // Local P² at ħ = 2π: E₀ = 2.56264206862381937, E₁ = 3.91821318829983977
     // (arXiv:1410.3382, 2014; from memory of that paper, confirmed independently). ≥ 12 digits.
-    let opts = SpectrumOptions { levels: 0..=1, basis: 300, max_basis: 450, digits: 16, squeeze: 1.0 };
+    let opts = SpectrumOptions {
+        levels: 0..=1,
+        basis: 300,
+        max_basis: 450,
+        digits: 16,
+        squeeze: 1.0,
+    };
     let s = spectrum::solve(&family("P2"), &opts).unwrap();
-    for (l, reference) in s.levels.iter().zip(["2.56264206862381937", "3.91821318829983977"]) {
+    for (l, reference) in s
+        .levels
+        .iter()
+        .zip(["2.56264206862381937", "3.91821318829983977"])
+    {
         let e = Float::with_val(s.working_bits, l.value.ln_ref());
         let r = rel(&e, &parse(s.working_bits, reference));
         assert!(r < 1e-12, "level {}: relative error {r:e}", l.level);
         // The reported estimate must not be optimistic by more than a factor 10.
         let abs_err = r * e.to_f64() * l.value.to_f64();
-        assert!(abs_err <= 10.0 * l.error_estimate.max(1e-300), "level {}: {abs_err:e} vs estimate {:e}", l.level, l.error_estimate);
+        assert!(
+            abs_err <= 10.0 * l.error_estimate.max(1e-300),
+            "level {}: {abs_err:e} vs estimate {:e}",
+            l.level,
+            l.error_estimate
+        );
     }
 }
 
@@ -58,13 +85,20 @@ fn p2_traces_of_the_inverse() {
     let ninth = Float::with_val(p, 1) / 9u32;
     let pi = Float::with_val(p, Constant::Pi);
     let root3 = Float::with_val(p, 3).sqrt();
-    let second = Float::with_val(p, 1) / 27u32 - Float::with_val(p, 1) / (Float::with_val(p, 6) * root3 * pi);
+    let second = Float::with_val(p, 1) / 27u32
+        - Float::with_val(p, 1) / (Float::with_val(p, 6) * root3 * pi);
     let mut previous: Option<(Float, Float)> = None;
     for n in [120usize, 260] {
         let (t1, t2) = spectrum::trace_of_inverse_powers(&family("P2"), n, 20).unwrap();
-        assert!(t1 < ninth && t2 < second, "N={n}: traces must be lower bounds");
+        assert!(
+            t1 < ninth && t2 < second,
+            "N={n}: traces must be lower bounds"
+        );
         if let Some((p1, p2)) = &previous {
-            assert!(&t1 > p1 && &t2 > p2, "N={n}: traces must increase with the basis");
+            assert!(
+                &t1 > p1 && &t2 > p2,
+                "N={n}: traces must increase with the basis"
+            );
         }
         previous = Some((t1, t2));
     }
@@ -79,13 +113,23 @@ fn eigenvalues_decrease_with_the_basis() {
     // family the truncated eigenvalues of levels 0..2 decrease from N = 60 to 90 to 135, and lie
     // above the classical minimum of φ.
     for id in ["F0", "P2", "dP3", "F1", "dP2"] {
-        let opts = SpectrumOptions { levels: 0..=2, basis: 60, max_basis: 140, digits: 16, squeeze: 1.0 };
+        let opts = SpectrumOptions {
+            levels: 0..=2,
+            basis: 60,
+            max_basis: 140,
+            digits: 16,
+            squeeze: 1.0,
+        };
         let l = family(id);
         let s = spectrum::solve(&l, &opts).unwrap();
         assert_eq!(s.bases, vec![60, 90, 135], "{id}");
         let (_, threshold) = l.classical_minimum();
         for lev in &s.levels {
-            assert!(lev.value.to_f64() > threshold, "{id} level {} below the threshold", lev.level);
+            assert!(
+                lev.value.to_f64() > threshold,
+                "{id} level {} below the threshold",
+                lev.level
+            );
         }
     }
 }
@@ -95,12 +139,23 @@ fn ground_state_wavefunction_is_normalized() {
     // ∫|ψ₀|² dr = 1 for the eigenvector's ψ on R (trapezoidal rule, spectrally accurate for
     // analytic decaying integrands; common practice), and ψ₀ of F0 is even up to a phase
     // (the operator commutes with r ↦ −r).
-    let opts = SpectrumOptions { levels: 0..=0, basis: 120, max_basis: 180, digits: 16, squeeze: 1.0 };
+    let opts = SpectrumOptions {
+        levels: 0..=0,
+        basis: 120,
+        max_basis: 180,
+        digits: 16,
+        squeeze: 1.0,
+    };
     let s = spectrum::solve(&family("F0"), &opts).unwrap();
     let h = 0.05;
-    let norm: f64 = (-800..=800).map(|k| s.wavefunction(0, k as f64 * h).unwrap().norm_sqr() * h).sum();
+    let norm: f64 = (-800..=800)
+        .map(|k| s.wavefunction(0, k as f64 * h).unwrap().norm_sqr() * h)
+        .sum();
     assert!((norm - 1.0).abs() < 1e-8, "norm {norm}");
-    let (a, b) = (s.wavefunction(0, 1.7).unwrap(), s.wavefunction(0, -1.7).unwrap());
+    let (a, b) = (
+        s.wavefunction(0, 1.7).unwrap(),
+        s.wavefunction(0, -1.7).unwrap(),
+    );
     assert!((a - b).norm() < 1e-8 * a.norm(), "{a} vs {b}");
 }
 
@@ -138,8 +193,6 @@ fn multiprecision_solver_agrees_with_nalgebra_on_a_small_truncation() {
     }
 }
 
-
-
 #[test]
 fn complex_and_real_matrices_give_the_same_spectrum_for_families_with_equal_periods() {
     // Observation (measured here, no published source): families whose constant-term
@@ -148,14 +201,25 @@ fn complex_and_real_matrices_give_the_same_spectrum_for_families_with_equal_peri
     // operators are complex Hermitian, while dP2 and dP2* are computed as real symmetric ones:
     // agreement checks the complex code path against the real one.
     for (complex_id, real_id) in [("Q5", "dP2"), ("Q7", "dP2*")] {
-        let opts = SpectrumOptions { levels: 0..=1, basis: 150, max_basis: 230, digits: 16, squeeze: 1.0 };
+        let opts = SpectrumOptions {
+            levels: 0..=1,
+            basis: 150,
+            max_basis: 230,
+            digits: 16,
+            squeeze: 1.0,
+        };
         let c = spectrum::solve(&family(complex_id), &opts).unwrap();
         let r = spectrum::solve(&family(real_id), &opts).unwrap();
         assert!(!c.real_matrix && r.real_matrix);
         for k in 0..2 {
             let tol = 10.0 * (c.levels[k].error_estimate + r.levels[k].error_estimate);
-            let d = Float::with_val(200, &c.levels[k].value - &r.levels[k].value).to_f64().abs();
-            assert!(d <= tol.max(1e-12), "{complex_id} vs {real_id} level {k}: {d:e} (tol {tol:e})");
+            let d = Float::with_val(200, &c.levels[k].value - &r.levels[k].value)
+                .to_f64()
+                .abs();
+            assert!(
+                d <= tol.max(1e-12),
+                "{complex_id} vs {real_id} level {k}: {d:e} (tol {tol:e})"
+            );
         }
     }
 }
