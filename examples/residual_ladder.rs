@@ -37,7 +37,7 @@ fn main() {
             );
             let line = c.down * d.clone() + (c.centre - ac.clone()) * m.clone() + c.up * u.clone();
             let pd = eig
-                .psi(&(z.clone() - Complex::with_val(bits, (0, two_pi))))
+                .psi(&(z.clone() - z.int_like(2) * z.pi_like() * z.i_like()))
                 .expect("psi");
             println!(
                 "digits {digits} r {r}: pointwise {:.2e}  lines {:.2e}  (down line vs point {:.2e})",
