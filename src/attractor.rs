@@ -152,7 +152,7 @@ impl Family {
     }
 
     /// `(Re ν(e^t), d Re ν/dt)` in double precision (the search phase).
-    fn nu_f64(&mut self, t: f64) -> Result<(f64, f64), AttractorError> {
+    pub fn nu_f64(&mut self, t: f64) -> Result<(f64, f64), AttractorError> {
         let a = t.exp();
         let alpha = self
             .alpha_series(&Complex::with_val(64, a))?

@@ -63,6 +63,9 @@ pub struct Eigenfunction<T> {
     /// ι̃z̃₀ reached by continuation, with the exponent integral accumulated on the way.
     pub base_other: (Point<T>, T),
     march: March,
+    /// Orders (ℓ_A, ℓ_C) of the zeros of A and C at x = −1: ψ has a pole of order ℓ_C at +2πi
+    /// and of order ℓ_A at −2πi.
+    pole_orders: (usize, usize),
 }
 
 /// Values of χ on both sheets and D at one z.
@@ -88,6 +91,7 @@ impl<T: CNum> Eigenfunction<T> {
     ) -> Result<Self, EigenError> {
         let curve = Curve::new(laurent, a)?;
         let singular = curve.singular_points()?;
+        let pole_orders = curve.puncture_orders()?;
         let march = March::for_digits(digits);
         let alpha = periods::alpha_path(&curve, &singular, &march)?;
         let lambda = alpha.regulator.clone() / alpha.omega.clone();
@@ -104,6 +108,7 @@ impl<T: CNum> Eigenfunction<T> {
             base: base.clone(),
             base_other: (base.clone(), like.int_like(0)),
             march,
+            pole_orders,
         };
         eig.base_other = eig.other_sheet_base()?;
         Ok(eig)
@@ -259,19 +264,17 @@ impl<T: CNum> Eigenfunction<T> {
         if self.distance_to_singular(z) >= NEAR_SINGULAR {
             return self.psi_direct(z);
         }
-        // The punctures at 2πik, k ≠ 0, are poles of ψ: no mean value around them (the route
-        // to a point near them is regular; a point on them is refused by the continuation).
-        let pole = self.distance_to_pole(z);
-        if pole < 4.0 * NEAR_SINGULAR {
+        // Poles of ψ (punctures at ±2πi where C resp. A vanishes, and every puncture farther out)
+        // get no mean value: the route to a point near them is regular, and a point on them is
+        // refused by the continuation.
+        if self.distance_to_pole(z) < 4.0 * NEAR_SINGULAR {
             return self.psi_direct(z);
         }
-        // On (or near) the boundary lines Im z = ±2π a circle would leave the strip, where ψ need
-        // not be analytic (measured: a circle around r₁ + 2πi for F0 capped the residual at 1e-14
-        // at any precision): evaluate directly there (the quotient then loses about one digit
-        // per decade of distance to the branch point).
-        if z.im_f64().abs() > 2.0 * std::f64::consts::PI - 4.0 * NEAR_SINGULAR {
-            return self.psi_direct(z);
-        }
+        // Elsewhere ψ is analytic in a neighbourhood of the closed strip (χ is single valued on
+        // the whole cover at an attractor modulus), so the circle may cross Im z = ±2π: measured
+        // for F0 level 5 at 40 digits, the residual with circles around r₁ ± 2πi stays at 1e-45
+        // (a cap near 1e-14 seen earlier came from circle points rounded to f64), and the
+        // removable punctures (−2πi for F1, where A(−1) ≠ 0) are evaluated this way.
         let m = (self.march.digits / 1.2).ceil().max(16.0) as usize;
         let mut acc = z.int_like(0);
         for w in mean_value_circle(z, 2.0 * NEAR_SINGULAR, m) {
@@ -441,14 +444,13 @@ impl<T: CNum> Eigenfunction<T> {
         }
     }
 
-    /// Distance from z to the nearest pole of ψ (the punctures 2πik, k ≠ 0, when A or C vanishes
-    /// at x = −1); infinite when there are none.
+    /// Distance from z to the nearest pole of ψ: +2πi when ℓ_C > 0, −2πi when ℓ_A > 0 (measured:
+    /// |ψ| grows like ε^{−ℓ_C} resp. ε^{−ℓ_A} there, `examples/pole_probe.rs`; the zero of C resp.
+    /// A in the eigen-equation cancels it), and, conservatively, every puncture 2πik with |k| ≥ 2
+    /// when there is any; infinite when A and C do not vanish at x = −1.
     pub fn distance_to_pole(&self, z: &T) -> f64 {
-        if !self
-            .singular
-            .iter()
-            .any(|s| s.kind == SingularKind::Puncture)
-        {
+        let (la, lc) = self.pole_orders;
+        if la + lc == 0 {
             return f64::INFINITY;
         }
         let two_pi = 2.0 * std::f64::consts::PI;
@@ -456,8 +458,22 @@ impl<T: CNum> Eigenfunction<T> {
         let k = (im / two_pi).round();
         [k - 1.0, k, k + 1.0]
             .iter()
-            .filter(|&&j| j != 0.0)
+            .filter(|&&j| match j as i64 {
+                0 => false,
+                1 => lc > 0,
+                -1 => la > 0,
+                _ => true,
+            })
             .map(|&j| (re * re + (im - j * two_pi).powi(2)).sqrt())
+            .fold(f64::INFINITY, f64::min)
+    }
+
+    /// Distance from the point p = (re, im) to the nearest branch point (all 2πi translates).
+    pub fn distance_to_branch_point(&self, p: [f64; 2]) -> f64 {
+        self.singular
+            .iter()
+            .filter(|s| s.kind == SingularKind::Branch)
+            .map(|s| crate::cover::periodic_distance(p, [s.z.re_f64(), s.z.im_f64()]))
             .fold(f64::INFINITY, f64::min)
     }
 
@@ -569,16 +585,38 @@ impl Grid {
     }
 }
 
-/// Where ψ has poles in the closed strip |Im z| ≤ 2π: at ±2πi when A or C vanishes at x = −1
-/// (a horizontal top or bottom edge), MATH.md §2.
-pub fn strip_poles<T: CNum>(curve: &Curve<T>) -> Vec<[f64; 2]> {
-    match curve.puncture_orders() {
-        Ok((la, lc)) if la + lc > 0 => vec![
-            [0.0, 2.0 * std::f64::consts::PI],
-            [0.0, -2.0 * std::f64::consts::PI],
-        ],
-        _ => Vec::new(),
+/// A pole of ψ in the closed strip |Im z| ≤ 2π.
+#[derive(Debug, Clone, Copy, PartialEq, serde::Serialize)]
+pub struct Pole {
+    /// Its position (re, im).
+    pub at: [f64; 2],
+    /// Its order.
+    pub order: usize,
+}
+
+/// Where ψ has poles in the closed strip |Im z| ≤ 2π (MATH.md §2: families with a horizontal top
+/// or bottom edge): at +2πi of order ℓ_C and at −2πi of order ℓ_A, the orders of the zeros of C
+/// and A at x = −1 (measured, `examples/pole_probe.rs`: |ψ(±2πi + ε)| ∝ ε^{−ℓ} for the eight
+/// families with punctures probed).
+pub fn strip_poles<T: CNum>(curve: &Curve<T>) -> Vec<Pole> {
+    let two_pi = 2.0 * std::f64::consts::PI;
+    let Ok((la, lc)) = curve.puncture_orders() else {
+        return Vec::new();
+    };
+    let mut out = Vec::new();
+    if lc > 0 {
+        out.push(Pole {
+            at: [0.0, two_pi],
+            order: lc,
+        });
     }
+    if la > 0 {
+        out.push(Pole {
+            at: [0.0, -two_pi],
+            order: la,
+        });
+    }
+    out
 }
 
 /// Normalization of ψ on R: unit L² norm and the phase rule "ψ real and positive at the point of
@@ -598,6 +636,8 @@ pub struct Normalization {
     pub decay: [f64; 2],
     /// Where |ψ| is largest on the quadrature grid.
     pub peak: f64,
+    /// The raw ψ on the quadrature grid r_k = −range + k·step (multiply by `factor`).
+    pub samples: Vec<Complex64>,
 }
 
 use num_complex::Complex64;
@@ -640,11 +680,13 @@ impl<T: CNum> Eigenfunction<T> {
         let mut sum = 0.0;
         let mut peak = (0.0, 0.0f64, Complex64::new(0.0, 0.0));
         let mut values = Vec::with_capacity(n + 1);
+        let mut samples = Vec::with_capacity(n + 1);
         let grid: Vec<f64> = (0..=n).map(|k| -l + k as f64 * h).collect();
         let line = self.psi_on_line(&grid, 0.0)?;
         for (k, v) in line.into_iter().enumerate() {
             let r = grid[k];
             let v = v.map(|v| v.to_c64()).unwrap_or(Complex64::new(0.0, 0.0));
+            samples.push(v);
             let w = if k == 0 || k == n { 0.5 } else { 1.0 };
             sum += w * v.norm_sqr() * h;
             if v.norm() > peak.1 {
@@ -708,6 +750,7 @@ impl<T: CNum> Eigenfunction<T> {
             tail: tail / total,
             decay,
             peak: peak.0,
+            samples,
         })
     }
 }

@@ -7,6 +7,8 @@
 //! Modules follow the mathematical objects (see `DEVELOPERS.md` for the architecture and
 //! `docs/REFERENCES.md` for the bibliography):
 //! - [`attractor`]: attractor moduli (ν(a) ∈ Z) to any precision, with level labels.
+//! - [`audit`]: attractor moduli matched to the independent spectrum both ways, and every
+//!   level's eigenfunction checked.
 //! - [`polygon`]: lattice polygons, reflexivity, GL₂(Z) normal form, strip form.
 //! - [`catalogue`]: the 16 reflexive classes, 15 with a canonical strip form.
 //! - [`laurent`]: the tempered Laurent polynomial φ, its strip decomposition `A y + B + C/y`,
@@ -17,13 +19,18 @@
 //! - [`spectrum`]: the independent harmonic-oscillator diagonalization.
 //! - [`cover`]: the double cover over the z-plane, branch points, root continuation.
 //! - [`eigenfn`]: χ on the cover, ψ = (χ − χ∘ι̃)/D at attractor moduli.
+//! - [`profile`]: the sampled, normalized eigenfunction on a grid with its residual, at a
+//!   working precision that keeps the reported digits real.
 //! - [`numeric`]: the small complex-number trait shared by the f64 and MPFR paths.
 //! - [`quad`]: Gauss–Legendre rules at any precision, cached.
 //! - [`precision`]: digits ↔ bits, guard bits and tolerances in one place.
 //! - [`selection`]: command-line selections (family id or vertices, level ranges) resolved.
+//! - [`verify`]: the checks of MATH.md §7 as measured figures (route dependence, Cauchy
+//!   integrals, eigenvector agreement, zeros, orthogonality, norm, the ν scan).
 //! - [`report`]: JSON documents and human tables (pure formatting, no I/O).
 
 pub mod attractor;
+pub mod audit;
 pub mod catalogue;
 pub mod cover;
 pub mod eigenfn;
@@ -33,11 +40,13 @@ pub mod operator;
 pub mod periods;
 pub mod polygon;
 pub mod precision;
+pub mod profile;
 pub mod quad;
 pub mod recurrence;
 pub mod report;
 pub mod selection;
 pub mod spectrum;
+pub mod verify;
 
 /// The version of this tool, recorded in every output.
 pub const TOOL_VERSION: &str = env!("CARGO_PKG_VERSION");

@@ -1,14 +1,17 @@
 //! The `regwave` command line: argument parsing, calls into the library, file writing.
 
 use clap::{Args, Parser, Subcommand};
+use indicatif::{ProgressBar, ProgressStyle};
 use num_complex::Complex64;
-use regwave::eigenfn::{self, Eigenfunction};
-use regwave::numeric::CNum;
+use regwave::audit::{self, Audit, AuditError, AuditOptions, CheckOptions};
+use regwave::eigenfn;
 use regwave::precision::{bits_for_digits, check_digits, with_guard, PrecisionError};
+use regwave::profile::{self, Profile, ProfileError, ProfileOptions, Target};
 use regwave::selection::{self, Selection, SelectionError};
 use regwave::spectrum::{self, SpectrumError, SpectrumOptions};
 use regwave::{attractor, catalogue, periods, report, TOOL_VERSION};
 use serde_json::{json, Value};
+use std::io::IsTerminal;
 use std::path::{Path, PathBuf};
 use std::process::ExitCode;
 use std::time::Instant;
@@ -40,6 +43,10 @@ enum Command {
     Attractors(AttractorsArgs),
     /// Build the eigenfunction psi at an attractor modulus and write psi.csv (+ strip lines) and psi.json.
     Build(BuildArgs),
+    /// Audit a family: attractor moduli matched to the independent spectrum both ways, every level's eigenfunction checked; Markdown, JSON and figures.
+    Audit(AuditArgs),
+    /// The residual report of one eigenfunction (all checks), without writing samples.
+    Check(CheckArgs),
     /// The built-in demonstration, written into out/tour/.
     Tour {
         /// Output directory.
@@ -142,6 +149,57 @@ struct BuildArgs {
     allow_non_attractor: bool,
 }
 
+#[derive(Args, Clone)]
+struct AuditArgs {
+    #[command(flatten)]
+    family: FamilyArgs,
+    /// Levels: an inclusive range A..B or one level n.
+    #[arg(long, default_value = "0..4")]
+    levels: String,
+    /// Decimal digits (16 or less: double precision where it suffices).
+    #[arg(long, default_value_t = 16)]
+    digits: u32,
+    /// Grid of real parts R0:R1:N for the residual and the profiles.
+    #[arg(long, default_value = "-12:12:241", allow_hyphen_values = true)]
+    grid: String,
+    /// Output directory (default out/audit-<family>).
+    #[arg(long)]
+    out: Option<PathBuf>,
+    /// Replace existing outputs.
+    #[arg(long)]
+    force: bool,
+    /// Also write PNG versions of the figures.
+    #[arg(long)]
+    png: bool,
+    /// Print one JSON document instead of the table.
+    #[arg(long)]
+    json: bool,
+}
+
+#[derive(Args, Clone)]
+struct CheckArgs {
+    #[command(flatten)]
+    family: FamilyArgs,
+    /// Level n (the attractor modulus with nu = n + 1).
+    #[arg(long, conflicts_with = "modulus")]
+    level: Option<usize>,
+    /// An explicit modulus a (must be an attractor modulus unless --allow-non-attractor).
+    #[arg(long, allow_hyphen_values = true)]
+    modulus: Option<String>,
+    /// Grid of real parts R0:R1:N.
+    #[arg(long, default_value = "-12:12:241", allow_hyphen_values = true)]
+    grid: String,
+    /// Decimal digits (16 or less: double precision where it suffices).
+    #[arg(long, default_value_t = 16)]
+    digits: u32,
+    /// Check even if the modulus is not an attractor modulus (the checks then show it).
+    #[arg(long)]
+    allow_non_attractor: bool,
+    /// Print one JSON document instead of the table.
+    #[arg(long)]
+    json: bool,
+}
+
 /// A failure with its exit code: 2 for bad input, 1 for a computation that failed.
 struct Failure {
     code: u8,
@@ -192,6 +250,8 @@ fn main() -> ExitCode {
         Command::Periods(args) => periods_command(&args),
         Command::Attractors(args) => attractors_command(&args),
         Command::Build(args) => build_command(&args),
+        Command::Audit(args) => audit_command(&args),
+        Command::Check(args) => check_command(&args),
         Command::Tour { out } => tour(&out),
     };
     match result {
@@ -332,139 +392,6 @@ fn attractors_command(args: &AttractorsArgs) -> Result<(), Failure> {
     emit(args.json, run_attractors(args)?)
 }
 
-/// The sampled, normalized eigenfunction.
-struct Samples {
-    grid: Vec<f64>,
-    main: Vec<Complex64>,
-    up: Vec<Option<Complex64>>,
-    down: Vec<Option<Complex64>>,
-    norm: eigenfn::Normalization,
-    lambda: Complex64,
-    spine: f64,
-    base: Complex64,
-    residual: Option<f64>,
-    poles: Vec<[f64; 2]>,
-    rule: Option<i64>,
-    reality_defect: Option<f64>,
-    cancellation_digits: f64,
-    strip_cancellation_digits: f64,
-}
-
-fn sample<T: CNum + Send + Sync>(
-    laurent: &regwave::laurent::Laurent,
-    a: T,
-    digits: f64,
-    grid: &[f64],
-    strip: bool,
-) -> Result<Samples, Failure> {
-    let prec = a.prec();
-    let eig = Eigenfunction::new(laurent, a, digits, None, 0.3).map_err(Failure::compute)?;
-    let norm = eig.normalization(0.05).map_err(Failure::compute)?;
-    let poles = eigenfn::strip_poles(eig.curve());
-    // A pole is located and reported, never sampled (None). Values stay at the working
-    // precision until the residual is formed (its terms are up to a·|ψ|: in f64 the residual
-    // itself would be floored at 1e-16·a).
-    let two_pi = 2.0 * std::f64::consts::PI;
-    // The three lines are independent: computed in parallel.
-    let line_at = |im: f64| {
-        eig.psi_on_line_with_loss(grid, im)
-            .map_err(Failure::compute)
-    };
-    let (main_res, (up_res, down_res)) = rayon::join(
-        || line_at(0.0),
-        || {
-            if strip {
-                rayon::join(|| line_at(two_pi).map(Some), || line_at(-two_pi).map(Some))
-            } else {
-                (Ok(None), Ok(None))
-            }
-        },
-    );
-    let (raw_main, cancellation_digits) = main_res?;
-    let (raw_up, up_loss) = up_res?.unwrap_or((Vec::new(), 0.0));
-    let (raw_down, down_loss) = down_res?.unwrap_or((Vec::new(), 0.0));
-    let strip_cancellation_digits = cancellation_digits.max(up_loss).max(down_loss);
-    let residual = if strip {
-        let q = regwave::operator::QuantumCurve::new(laurent).map_err(Failure::input)?;
-        let scale = raw_main
-            .iter()
-            .flatten()
-            .map(|v| v.abs_f64())
-            .fold(0.0, f64::max);
-        let a_t = T::from_f64s(0.0, 0.0, prec) + eig.curve().modulus().clone();
-        let mut worst: f64 = 0.0;
-        for (k, &r) in grid.iter().enumerate() {
-            if let (Some(d), Some(m), Some(u)) = (&raw_down[k], &raw_main[k], &raw_up[k]) {
-                let c = q.coefficients(&T::from_f64s(r, 0.0, prec));
-                let res =
-                    c.down * d.clone() + (c.centre - a_t.clone()) * m.clone() + c.up * u.clone();
-                worst = worst.max(res.abs_f64() / scale);
-            }
-        }
-        Some(worst)
-    } else {
-        None
-    };
-    let round = |v: Vec<Option<T>>| -> Vec<Option<Complex64>> {
-        v.into_iter()
-            .map(|v| v.map(|v| v.to_c64() * norm.factor))
-            .collect()
-    };
-    let mut main: Vec<Complex64> = round(raw_main)
-        .into_iter()
-        .map(|v| v.unwrap_or(Complex64::new(f64::NAN, f64::NAN)))
-        .collect();
-    let (mut up, mut down) = (round(raw_up), round(raw_down));
-    // Phase: with a reality rule k, e^{−ikr²/(8π)}ψ is made real and positive at the grid point of
-    // largest |ψ| (the normalization already made ψ itself positive at the peak on R).
-    let rule = eigenfn::reality_rule(laurent);
-    let mut reality_defect = None;
-    if let Some(k) = rule {
-        let g: Vec<Complex64> = main
-            .iter()
-            .zip(grid)
-            .map(|(v, &r)| v * eigenfn::reality_factor(k, r))
-            .collect();
-        if let Some(peak) = g
-            .iter()
-            .copied()
-            .filter(|v| v.is_finite())
-            .max_by(|x, y| x.norm().total_cmp(&y.norm()))
-        {
-            let turn = (peak / peak.norm()).conj();
-            for v in main.iter_mut() {
-                *v *= turn;
-            }
-            for v in up.iter_mut().chain(down.iter_mut()).flatten() {
-                *v *= turn;
-            }
-            let d = g
-                .iter()
-                .filter(|v| v.is_finite())
-                .map(|v| (v * turn).im.abs())
-                .fold(0.0, f64::max)
-                / peak.norm();
-            reality_defect = Some(d);
-        }
-    }
-    Ok(Samples {
-        grid: grid.to_vec(),
-        main,
-        up,
-        down,
-        norm,
-        lambda: eig.lambda.to_c64(),
-        spine: eig.spine,
-        base: eig.base.z.to_c64(),
-        residual,
-        poles,
-        rule,
-        reality_defect,
-        cancellation_digits,
-        strip_cancellation_digits,
-    })
-}
-
 fn csv(grid: &[f64], values: &[Option<Complex64>]) -> String {
     let mut out = String::from("r,re_psi,im_psi\n");
     for (r, v) in grid.iter().zip(values) {
@@ -476,146 +403,90 @@ fn csv(grid: &[f64], values: &[Option<Complex64>]) -> String {
     out
 }
 
+impl From<ProfileError> for Failure {
+    fn from(e: ProfileError) -> Self {
+        if e.is_input() {
+            Failure::input(e)
+        } else {
+            Failure::compute(e)
+        }
+    }
+}
+
+/// The eigenfunction selected by `--level` / `--modulus`.
+fn target_of(level: Option<usize>, modulus: &Option<String>) -> Result<Target, Failure> {
+    match (level, modulus) {
+        (Some(n), _) => Ok(Target::Level(n)),
+        (None, Some(text)) => Ok(Target::Modulus(text.clone())),
+        (None, None) => Err(Failure::input("give --level n or --modulus A")),
+    }
+}
+
+/// The JSON record of a profile (psi.json).
+fn profile_json(p: &Profile, family: &str, files: &[&str], inputs: Value, elapsed: f64) -> Value {
+    json!({
+        "family": family,
+        "level": p.level,
+        "modulus": report::decimal(&p.modulus, regwave::precision::digits_for_bits(p.modulus.prec()).max(17)),
+        "nu": p.nu,
+        "nu_distance_to_integer": p.nu_distance,
+        "lambda": {"re": p.lambda.re, "im": p.lambda.im},
+        "base_point": {"re": p.base.re, "im": p.base.im},
+        "spine_im": p.spine,
+        "precision_bits": p.precision_bits,
+        "lambda_digits_lost": p.lambda_digits_lost,
+        "cancellation_digits_lost_on_r": p.cancellation_digits,
+        "digits_left_min_on_r": p.working_digits - p.cancellation_digits,
+        "cancellation_digits_lost_on_strip_lines": p.strip_cancellation_digits,
+        "phase_rule": match p.rule {
+            Some(k) => json!({"k": k, "statement": format!("exp(-i*({k})*r^2/(8*pi)) * psi(r) is real (antiunitary symmetry m -> (m1 + ({k}) m2, -m2))"), "max_imaginary_part_relative": p.reality_defect}),
+            None => json!({"k": null, "statement": "no pointwise reality rule for this family: the phase profile arg psi(r) is in psi.csv"}),
+        },
+        "normalization": {
+            "rule": "unit L2 norm on R; with a phase rule, exp(-i k r^2/(8 pi)) psi real and positive where |psi| is largest on the grid, else psi itself",
+            "raw_norm_squared": p.normalization.raw_norm_squared,
+            "quadrature_range": p.normalization.range,
+            "quadrature_step": p.normalization.step,
+            "tail_fraction": p.normalization.tail,
+            "peak_r": p.normalization.peak,
+        },
+        "checks": {
+            "eigen_equation_residual_max": p.residual.as_ref().map(|r| r.max),
+            "eigen_equation_residual_rms": p.residual.as_ref().map(|r| r.rms),
+            "residual_points_with_pole_limits": p.residual.as_ref().map(|r| r.pole_limits),
+            "residual_note": "A psi(r-2pi i) + C psi(r+2pi i) - (B+a) psi(r), each value integrated along its own route, relative to max|psi| on the grid; at poles of psi the products are evaluated as limits (needs --strip)",
+            "decay_rate_left": p.normalization.decay[0],
+            "decay_rate_right": p.normalization.decay[1],
+        },
+        "poles": p.poles,
+        "files": files,
+        "tool_version": TOOL_VERSION,
+        "inputs": inputs,
+        "elapsed_s": elapsed,
+        "note": "numerical evidence, not proofs",
+    })
+}
+
 fn build_command(args: &BuildArgs) -> Result<(), Failure> {
     let start = Instant::now();
     check_digits(args.digits)?;
     let sel = select(&args.family)?;
     let grid = eigenfn::Grid::parse(&args.grid).map_err(Failure::input)?;
-    let bits = with_guard(bits_for_digits(args.digits.max(20) as f64));
-    let mut fam = attractor::Family::new(&sel.laurent).map_err(Failure::compute)?;
-    let (a, level, nu, distance) = match (args.level, &args.modulus) {
-        (Some(n), _) => {
-            let at = attractor::solve_levels(&sel.laurent, n..=n, args.digits.max(20))
-                .map_err(Failure::compute)?;
-            (at[0].modulus.clone(), Some(n), at[0].nu as f64, 0.0)
-        }
-        (None, Some(text)) => {
-            let a = selection::parse_modulus(text, bits, &sel.laurent)?;
-            let (nu, _, _, _) = fam.nu(&a, bits).map_err(Failure::compute)?;
-            let nu = nu.to_f64();
-            let distance = (nu - nu.round()).abs();
-            if distance > 1e-6 && !args.allow_non_attractor {
-                return Err(Failure::input(format!(
-                    "the modulus {} is not an attractor modulus: nu = {nu:.12}, {distance:.3e} from the nearest integer {}; \
-                     give --level n, or --allow-non-attractor to build anyway (the result is then not an eigenfunction)",
-                    text.trim(),
-                    nu.round()
-                )));
-            }
-            let level = if distance <= 1e-6 && nu.round() >= 1.0 {
-                Some(nu.round() as usize - 1)
-            } else {
-                None
-            };
-            (a, level, nu, distance)
-        }
-        (None, None) => return Err(Failure::input("give --level n or --modulus A")),
-    };
+    let target = target_of(args.level, &args.modulus)?;
     // Refuse to overwrite unless --force, before computing anything expensive.
     let files: Vec<&str> = if args.strip {
         vec!["psi.csv", "psi_up.csv", "psi_down.csv", "psi.json"]
     } else {
         vec!["psi.csv", "psi.json"]
     };
-    if !args.force {
-        if let Some(f) = files.iter().find(|f| args.out.join(f).exists()) {
-            return Err(Failure::input(format!(
-                "{} exists; use --force to replace it",
-                args.out.join(f).display()
-            )));
-        }
-    }
-    let grid_values = grid.values();
-    // The exponent integrals grow like |λ| = |R_α/Ω_α| (≈ 50 at F0 level 0, 2e5 at level 9), and
-    // exp loses log₁₀|λ| digits: measured residual ≈ 2e-15·|λ| in double precision. When that
-    // would exceed 1e-11 the working precision is raised (rug) by the digits lost.
-    let lambda = {
-        let curve = regwave::cover::Curve::new(&sel.laurent, Complex64::new(a.to_f64(), 0.0))
-            .map_err(Failure::compute)?;
-        let sing = curve.singular_points().map_err(Failure::compute)?;
-        let alpha = periods::alpha_path(&curve, &sing, &regwave::cover::March::for_digits(15.0))
-            .map_err(Failure::compute)?;
-        (alpha.regulator / alpha.omega).norm()
+    refuse_existing(&args.out, &files, args.force)?;
+    let options = ProfileOptions {
+        grid: grid.values(),
+        strip: args.strip,
+        digits: args.digits,
+        allow_non_attractor: args.allow_non_attractor,
     };
-    let lost = lambda.max(1.0).log10();
-    let digits = if args.digits <= 16 && 2e-15 * lambda > 1e-11 {
-        (16.0 + lost).ceil()
-    } else {
-        args.digits as f64
-    };
-    let work_bits = with_guard(bits_for_digits(
-        digits.max(args.digits as f64) + if args.digits > 16 { lost } else { 0.0 },
-    ));
-    let double = args.digits <= 16 && digits <= 16.0;
-    // The modulus must carry the working precision: re-solve the attractor there if needed.
-    let a = match (double, level, &args.modulus) {
-        (false, Some(n), None) => {
-            let d =
-                regwave::precision::digits_for_bits(work_bits).min(regwave::precision::MAX_DIGITS);
-            attractor::solve_levels(&sel.laurent, n..=n, d).map_err(Failure::compute)?[0]
-                .modulus
-                .clone()
-        }
-        _ => a,
-    };
-    let s = if double {
-        sample(
-            &sel.laurent,
-            Complex64::new(a.to_f64(), 0.0),
-            15.0,
-            &grid_values,
-            args.strip,
-        )?
-    } else {
-        let a_work = rug::Float::with_val(work_bits, &a);
-        sample(
-            &sel.laurent,
-            rug::Complex::with_val(work_bits, (&a_work, 0)),
-            regwave::precision::digits_for_bits(work_bits) as f64,
-            &grid_values,
-            args.strip,
-        )?
-    };
-    // The difference χ − χ∘ι̃ consumes digits where both are large (the strip lines at high
-    // levels): if fewer than 12 digits would survive, redo the lines at a precision that covers
-    // the loss plus 15 digits.
-    let mut working_digits = if double {
-        15.0
-    } else {
-        regwave::precision::digits_for_bits(work_bits) as f64
-    };
-    let (mut s, mut bits) = (s, if double { 53 } else { work_bits });
-    // The loss is only measurable below the working precision, so the check repeats (at most
-    // three times) until at least 12 digits are left everywhere on R. On the strip lines far out
-    // at high levels |ψ| is astronomically small against |χ|: their accuracy is absolute
-    // (relative to max|ψ| on R, as the residual is) and their loss is reported, not chased.
-    for _ in 0..3 {
-        if working_digits - s.cancellation_digits >= 12.0 {
-            break;
-        }
-        let need = (15.0 + s.cancellation_digits.max(working_digits - 8.0) + 4.0)
-            .ceil()
-            .min(regwave::precision::MAX_DIGITS as f64);
-        let retry_bits = with_guard(bits_for_digits(need));
-        let d = regwave::precision::digits_for_bits(retry_bits).min(regwave::precision::MAX_DIGITS);
-        let a_retry = match (level, &args.modulus) {
-            (Some(n), None) => attractor::solve_levels(&sel.laurent, n..=n, d)
-                .map_err(Failure::compute)?[0]
-                .modulus
-                .clone(),
-            _ => rug::Float::with_val(retry_bits, &a),
-        };
-        let a_retry = rug::Float::with_val(retry_bits, &a_retry);
-        s = sample(
-            &sel.laurent,
-            rug::Complex::with_val(retry_bits, (&a_retry, 0)),
-            d as f64,
-            &grid_values,
-            args.strip,
-        )?;
-        bits = retry_bits;
-        working_digits = d as f64;
-    }
+    let p = profile::build(&sel.laurent, &target, &options)?;
     let elapsed = start.elapsed().as_secs_f64();
     let mut inputs = family_inputs(&args.family, &sel);
     inputs["level"] = json!(args.level);
@@ -623,50 +494,11 @@ fn build_command(args: &BuildArgs) -> Result<(), Failure> {
     inputs["grid"] = json!(args.grid);
     inputs["strip"] = json!(args.strip);
     inputs["digits"] = json!(args.digits);
-    let doc = json!({
-        "family": sel.family.id,
-        "level": level,
-        "modulus": report::decimal(&a, args.digits.max(20)),
-        "nu": nu,
-        "nu_distance_to_integer": distance,
-        "lambda": {"re": s.lambda.re, "im": s.lambda.im},
-        "base_point": {"re": s.base.re, "im": s.base.im},
-        "spine_im": s.spine,
-        "precision_bits": bits,
-        "lambda_digits_lost": lost,
-        "cancellation_digits_lost_on_r": s.cancellation_digits,
-        "digits_left_min_on_r": working_digits - s.cancellation_digits,
-        "cancellation_digits_lost_on_strip_lines": if args.strip { Some(s.strip_cancellation_digits) } else { None },
-        "phase_rule": match s.rule {
-            Some(k) => json!({"k": k, "statement": format!("exp(-i*({k})*r^2/(8*pi)) * psi(r) is real (antiunitary symmetry m -> (m1 + ({k}) m2, -m2))"), "max_imaginary_part_relative": s.reality_defect}),
-            None => json!({"k": null, "statement": "no pointwise reality rule for this family: the phase profile arg psi(r) is in psi.csv"}),
-        },
-        "normalization": {
-            "rule": "unit L2 norm on R; with a phase rule, exp(-i k r^2/(8 pi)) psi real and positive where |psi| is largest on the grid, else psi itself",
-            "raw_norm_squared": s.norm.raw_norm_squared,
-            "quadrature_range": s.norm.range,
-            "quadrature_step": s.norm.step,
-            "tail_fraction": s.norm.tail,
-            "peak_r": s.norm.peak,
-        },
-        "checks": {
-            "eigen_equation_residual_max": s.residual,
-            "residual_note": "A psi(r-2pi i) + C psi(r+2pi i) - (B+a) psi(r), each value integrated along its own route, max over the grid relative to max|psi| (needs --strip)",
-            "decay_rate_left": s.norm.decay[0],
-            "decay_rate_right": s.norm.decay[1],
-        },
-        "poles": s.poles,
-        "files": files,
-        "tool_version": TOOL_VERSION,
-        "inputs": inputs,
-        "elapsed_s": elapsed,
-        "note": "numerical evidence, not proofs",
-    });
-    let main: Vec<Option<Complex64>> = s.main.iter().map(|v| Some(*v)).collect();
-    let mut outputs = vec![("psi.csv", csv(&s.grid, &main))];
+    let doc = profile_json(&p, sel.family.id, &files, inputs, elapsed);
+    let mut outputs = vec![("psi.csv", csv(&p.grid, &p.main))];
     if args.strip {
-        outputs.push(("psi_up.csv", csv(&s.grid, &s.up)));
-        outputs.push(("psi_down.csv", csv(&s.grid, &s.down)));
+        outputs.push(("psi_up.csv", csv(&p.grid, &p.up)));
+        outputs.push(("psi_down.csv", csv(&p.grid, &p.down)));
     }
     outputs.push((
         "psi.json",
@@ -678,6 +510,170 @@ fn build_command(args: &BuildArgs) -> Result<(), Failure> {
         args.out.display(),
         elapsed
     );
+    Ok(())
+}
+
+/// Refuses to replace existing outputs unless `force`.
+fn refuse_existing(dir: &Path, files: &[&str], force: bool) -> Result<(), Failure> {
+    if force {
+        return Ok(());
+    }
+    match files.iter().find(|f| dir.join(f).exists()) {
+        Some(f) => Err(Failure::input(format!(
+            "{} exists; use --force to replace it",
+            dir.join(f).display()
+        ))),
+        None => Ok(()),
+    }
+}
+
+impl From<AuditError> for Failure {
+    fn from(e: AuditError) -> Self {
+        match e {
+            AuditError::Profile(p) => p.into(),
+            e => Failure::compute(e),
+        }
+    }
+}
+
+/// A progress bar on stderr when it is a terminal and output is not JSON; hidden otherwise.
+fn progress_bar(len: u64, quiet: bool, label: &str) -> ProgressBar {
+    if quiet || !std::io::stderr().is_terminal() {
+        return ProgressBar::hidden();
+    }
+    let bar = ProgressBar::new(len);
+    bar.set_style(
+        ProgressStyle::with_template("{prefix} [{bar:30}] {pos}/{len} {msg} ({elapsed})")
+            .expect("template")
+            .progress_chars("=> "),
+    );
+    bar.set_prefix(label.to_string());
+    bar
+}
+
+/// Runs one audit with a progress bar; returns the audit and its wall time.
+fn run_audit(
+    sel: &Selection,
+    levels: std::ops::RangeInclusive<usize>,
+    digits: u32,
+    grid: &[f64],
+    quiet: bool,
+) -> Result<(Audit, f64), Failure> {
+    let start = Instant::now();
+    let stages = (levels.end() - levels.start() + 1) as u64 + 4;
+    let bar = progress_bar(stages, quiet, &format!("audit {}", sel.family.id));
+    let options = AuditOptions {
+        levels,
+        digits,
+        grid: grid.to_vec(),
+        perturbation: 1e-6,
+        spectrum_basis: 200,
+        spectrum_max_basis: 300,
+    };
+    let tick = |what: &str| {
+        bar.set_message(what.to_string());
+        bar.inc(1);
+    };
+    let audit = audit::run(&sel.laurent, &options, &tick)?;
+    bar.finish_and_clear();
+    Ok((audit, start.elapsed().as_secs_f64()))
+}
+
+fn audit_command(args: &AuditArgs) -> Result<(), Failure> {
+    check_digits(args.digits)?;
+    let sel = select(&args.family)?;
+    let levels = selection::parse_levels(&args.levels)?;
+    let grid = eigenfn::Grid::parse(&args.grid).map_err(Failure::input)?;
+    let out = args
+        .out
+        .clone()
+        .unwrap_or_else(|| PathBuf::from(format!("out/audit-{}", sel.family.id)));
+    refuse_existing(&out, &["audit.md", "audit.json"], args.force)?;
+    let (audit, elapsed) = run_audit(&sel, levels.clone(), args.digits, &grid.values(), args.json)?;
+    let mut inputs = family_inputs(&args.family, &sel);
+    inputs["levels"] = json!([levels.start(), levels.end()]);
+    inputs["digits"] = json!(args.digits);
+    inputs["grid"] = json!(args.grid);
+    let doc = report::audit_json(sel.family.id, &audit, inputs, elapsed);
+    let mut md = format!(
+        "# regwave audit: {}
+
+Generated by `regwave audit` (regwave {TOOL_VERSION}). Numerical evidence, not proofs.
+
+",
+        sel.family.id
+    );
+    md.push_str(&report::audit_markdown(
+        sel.family.id,
+        &audit,
+        args.digits,
+        elapsed,
+    ));
+    write_all_atomic(
+        &out,
+        &[
+            ("audit.md", md.clone()),
+            (
+                "audit.json",
+                serde_json::to_string_pretty(&doc).expect("JSON"),
+            ),
+        ],
+    )?;
+    if args.json {
+        println!("{}", serde_json::to_string_pretty(&doc).expect("JSON"));
+    } else {
+        print!("{md}");
+        eprintln!("regwave audit: wrote {}", out.display());
+    }
+    unmatched_failure(sel.family.id, &audit)
+}
+
+/// Exit code 1 with the findings when some level is unmatched.
+fn unmatched_failure(family: &str, audit: &Audit) -> Result<(), Failure> {
+    if audit.unmatched.is_empty() {
+        return Ok(());
+    }
+    let list: Vec<String> = audit
+        .unmatched
+        .iter()
+        .map(|u| {
+            format!(
+                "{} {:.12} (label {}, nearest {:.12})",
+                u.kind, u.value, u.label, u.nearest
+            )
+        })
+        .collect();
+    Err(Failure::compute(format!(
+        "{family}: unmatched in the audit window: {}",
+        list.join("; ")
+    )))
+}
+
+fn check_command(args: &CheckArgs) -> Result<(), Failure> {
+    let start = Instant::now();
+    check_digits(args.digits)?;
+    let sel = select(&args.family)?;
+    let grid = eigenfn::Grid::parse(&args.grid).map_err(Failure::input)?;
+    let target = target_of(args.level, &args.modulus)?;
+    let options = CheckOptions {
+        grid: grid.values(),
+        digits: args.digits,
+        allow_non_attractor: args.allow_non_attractor,
+        perturbation: 1e-6,
+    };
+    let c = audit::check(&sel.laurent, &target, &options)?;
+    let elapsed = start.elapsed().as_secs_f64();
+    let mut inputs = family_inputs(&args.family, &sel);
+    inputs["level"] = json!(args.level);
+    inputs["modulus"] = json!(args.modulus);
+    inputs["grid"] = json!(args.grid);
+    inputs["digits"] = json!(args.digits);
+    let doc = report::check_json(sel.family.id, &c, inputs, elapsed);
+    if args.json {
+        println!("{}", serde_json::to_string_pretty(&doc).expect("JSON"));
+    } else {
+        print!("{}", report::check_text(sel.family.id, &c, elapsed));
+    }
     Ok(())
 }
 

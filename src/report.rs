@@ -433,3 +433,292 @@ pub fn attractors_table(
     out.push_str("\nDigits shown are those confirmed by a second solve at higher precision (numerical evidence, not proofs).\n");
     out
 }
+
+/// The JSON record of one audited level (the per-level keys of `audit` and `check`).
+pub fn level_json(l: &crate::audit::LevelAudit) -> Value {
+    let p = &l.profile;
+    let spectrum_digits = supported_digits(&l.spectrum_value, l.spectrum_error, 30);
+    json!({
+        "level": l.level,
+        "nu": l.nu,
+        "modulus": decimal(&l.modulus, l.modulus_digits.max(1)),
+        "modulus_digits": l.modulus_digits,
+        "spectrum_value": decimal(&l.spectrum_value, spectrum_digits),
+        "spectrum_error_estimate": sci(l.spectrum_error),
+        "agreement_digits": round1(l.agreement_digits),
+        "agreement_cap_digits": round1(l.agreement_cap),
+        "residual_max": p.residual.as_ref().map(|r| r.max),
+        "residual_rms": p.residual.as_ref().map(|r| r.rms),
+        "residual_points_with_pole_limits": p.residual.as_ref().map(|r| r.pole_limits),
+        "norm": l.norm,
+        "norm_on_grid": l.norm_on_grid,
+        "norm_tail_fraction": p.normalization.tail,
+        "zeros_inside": l.zeros.count,
+        "zeros": l.zeros,
+        "decay_rate": {"left": p.normalization.decay[0], "right": p.normalization.decay[1]},
+        "eigenvector_difference": l.eigenvector_difference,
+        "route_dependence": l.route_dependence,
+        "cauchy_defect": l.cauchy_defect,
+        "phase_rule_k": p.rule,
+        "phase_rule_max_imaginary_part": p.reality_defect,
+        "lambda": {"re": p.lambda.re, "im": p.lambda.im},
+        "precision_bits": p.precision_bits,
+        "cancellation_digits_lost_on_r": p.cancellation_digits,
+    })
+}
+
+fn round1(x: f64) -> f64 {
+    (x * 10.0).round() / 10.0
+}
+
+/// `regwave audit --json`.
+pub fn audit_json(family: &str, a: &crate::audit::Audit, inputs: Value, elapsed_s: f64) -> Value {
+    json!({
+        "family": family,
+        "levels": a.levels.iter().map(level_json).collect::<Vec<_>>(),
+        "orthogonality": a.orthogonality,
+        "orthogonality_max": a.orthogonality_max,
+        "normalization_max_deviation": a.normalization_max_deviation,
+        "unmatched": a.unmatched,
+        "all_matched": a.unmatched.is_empty(),
+        "negative_control_defect": a.negative_control.defect(),
+        "negative_control": a.negative_control,
+        "window": a.window,
+        "eigenvalues_in_window": a.eigenvalues_in_window,
+        "nu_scan": {
+            "points": a.scan.log_a.len(),
+            "increasing": a.scan.increasing,
+            "skipped_below": a.scan.skipped,
+            "start": {"modulus": a.scan.log_a[0].exp(), "nu": a.scan.nu[0]},
+            "crossings": a.scan.crossings.iter().map(|c| json!({"log_a": c.0, "nu": c.1})).collect::<Vec<_>>(),
+        },
+        "period_agreement_digits": a.period_agreement_digits,
+        "precision_bits": a.levels.iter().map(|l| l.profile.precision_bits).max(),
+        "diagnostic_precision_bits": a.diagnostic_bits,
+        "spectrum": {"bases": a.spectrum_bases, "precision_bits": a.spectrum_bits},
+        "tool_version": TOOL_VERSION,
+        "inputs": inputs,
+        "elapsed_s": elapsed_s,
+        "note": "numerical evidence, not proofs",
+    })
+}
+
+/// One row of the per-level table (Markdown).
+fn level_row(l: &crate::audit::LevelAudit) -> String {
+    let p = &l.profile;
+    let spectrum_digits = supported_digits(&l.spectrum_value, l.spectrum_error, 30);
+    let residual = p
+        .residual
+        .as_ref()
+        .map(|r| sci(r.max))
+        .unwrap_or_else(|| "–".into());
+    format!(
+        "| {} | {} | {} | {} | {:.1} | {} | {} | {} | {:.3} / {:.3} | {} | {} |\n",
+        l.level,
+        l.nu,
+        decimal(&l.modulus, l.modulus_digits.max(1)),
+        decimal(&l.spectrum_value, spectrum_digits),
+        l.agreement_digits,
+        residual,
+        sci(l.norm - 1.0),
+        l.zeros.count,
+        p.normalization.decay[0],
+        p.normalization.decay[1],
+        sci(l.eigenvector_difference),
+        sci(l.route_dependence.max(l.cauchy_defect)),
+    )
+}
+
+/// The per-level table header (Markdown).
+pub const LEVEL_TABLE_HEADER: &str = "| n | ν | a_n (attractor) | a_n (spectrum) | agree (digits) | residual | ‖ψ‖² − 1 | zeros | decay −∞ / +∞ | ψ vs oscillator | single-valuedness |\n|---:|---:|---|---|---:|---:|---:|---:|---|---:|---:|\n";
+
+/// The per-level table of an audit or check (Markdown).
+pub fn level_table(levels: &[crate::audit::LevelAudit]) -> String {
+    let mut out = String::from(LEVEL_TABLE_HEADER);
+    for l in levels {
+        out.push_str(&level_row(l));
+    }
+    out
+}
+
+/// The audit of one family as Markdown (a section of a report; figures are linked by the caller).
+pub fn audit_markdown(
+    family: &str,
+    a: &crate::audit::Audit,
+    digits: u32,
+    elapsed_s: f64,
+) -> String {
+    let mut out = format!("## {family}\n\n");
+    let bits = a
+        .levels
+        .iter()
+        .map(|l| l.profile.precision_bits)
+        .max()
+        .unwrap_or(53);
+    out.push_str(&format!(
+        "Requested {digits} digits; eigenfunctions at up to {bits} bits (≈ {} digits), diagnostics at {} bits; \
+         independent spectrum at bases {:?} ({} bits). Window of moduli ({:.6}, {:.6}]. {:.1} s.\n\n",
+        crate::precision::digits_for_bits(bits),
+        a.diagnostic_bits,
+        a.spectrum_bases,
+        a.spectrum_bits,
+        a.window[0],
+        a.window[1],
+        elapsed_s
+    ));
+    out.push_str(&level_table(&a.levels));
+    out.push_str(&format!(
+        "\n- Matching both ways: {} attractor moduli and {} eigenvalues in the window; {}.\n",
+        a.scan.crossings.len(),
+        a.eigenvalues_in_window.len(),
+        if a.unmatched.is_empty() {
+            "every attractor modulus matches an eigenvalue and every eigenvalue an attractor modulus".to_string()
+        } else {
+            format!("**{} unmatched** (listed below)", a.unmatched.len())
+        }
+    ));
+    out.push_str(&format!(
+        "- ν(a) increases on all {} scan points: {}.{}\n",
+        a.scan.log_a.len(),
+        if a.scan.increasing { "yes" } else { "**no**" },
+        if a.scan.skipped > 0 {
+            format!(
+                " The scan starts at a = {:.6} (ν = {:.4}): below it the β cycle of the period rule is not defined ({} points skipped).",
+                a.scan.log_a[0].exp(),
+                a.scan.nu[0],
+                a.scan.skipped
+            )
+        } else {
+            String::new()
+        }
+    ));
+    out.push_str(&format!(
+        "- Orthogonality: max |⟨ψ_m, ψ_n⟩| (m ≠ n) = {}; max |‖ψ_n‖² − 1| = {}.\n",
+        sci(a.orthogonality_max),
+        sci(a.normalization_max_deviation)
+    ));
+    out.push_str(&format!(
+        "- Negative control: at a₀·(1 + {:.0e}) the route dependence is {} and the Cauchy defect {} (at the attractor modulus: {} and {}).\n",
+        a.negative_control.perturbation,
+        sci(a.negative_control.route_dependence),
+        sci(a.negative_control.cauchy_defect),
+        sci(a.negative_control.route_dependence_at_attractor),
+        sci(a.negative_control.cauchy_defect_at_attractor),
+    ));
+    out.push_str(&match a.period_agreement_digits {
+        Some(d) => format!("- Ω_α and R_α by series and by path agree to {d:.1} digits at the largest audited modulus.\n"),
+        None => "- Ω_α, R_α: the largest audited modulus is inside the series radius; path values only.\n".into(),
+    });
+    for u in &a.unmatched {
+        out.push_str(&format!(
+            "- **unmatched {}**: {:.12} (label {}), nearest {:.12}, relative gap {} — {}\n",
+            u.kind,
+            u.value,
+            u.label,
+            u.nearest,
+            sci(u.relative_gap),
+            u.note
+        ));
+    }
+    out.push_str("\nColumns: residual = max |A ψ(r−2πi) + C ψ(r+2πi) − (B+a) ψ(r)| / max|ψ| on the grid, the shifted values integrated \
+                  along their own routes; ψ vs oscillator = max difference from the harmonic-oscillator eigenfunction relative to max|ψ|; \
+                  single-valuedness = the larger of route dependence and Cauchy defect; zeros counted between the outermost real parts \
+                  of the branch points (sign changes with a reality rule, phase slips without).\n\n");
+    out
+}
+
+/// `regwave check --json`: the per-level keys of the audit plus the one-function checks.
+pub fn check_json(family: &str, c: &crate::audit::Check, inputs: Value, elapsed_s: f64) -> Value {
+    json!({
+        "family": family,
+        "levels": [level_json(&c.level)],
+        "negative_control_defect": c.negative_control.defect(),
+        "negative_control": c.negative_control,
+        "nu_distance_to_integer": c.level.profile.nu_distance,
+        "period_agreement_digits": c.period_agreement_digits,
+        "precision_bits": c.level.profile.precision_bits,
+        "spectrum": {"bases": c.spectrum_bases, "precision_bits": c.spectrum_bits},
+        "tool_version": TOOL_VERSION,
+        "inputs": inputs,
+        "elapsed_s": elapsed_s,
+        "note": "numerical evidence, not proofs",
+    })
+}
+
+/// `regwave check` as text.
+pub fn check_text(family: &str, c: &crate::audit::Check, elapsed_s: f64) -> String {
+    let l = &c.level;
+    let p = &l.profile;
+    let mut out = format!(
+        "family {family}, level {}: checks of the eigenfunction at a = {} ({} bits, {:.2} s)\n\n",
+        l.level,
+        decimal(&l.modulus, l.modulus_digits.max(1)),
+        p.precision_bits,
+        elapsed_s
+    );
+    out.push_str(&format!(
+        "  nu at the modulus                      {:.15} (distance to an integer {})\n",
+        p.nu,
+        sci(p.nu_distance)
+    ));
+    out.push_str(&format!(
+        "  independent eigenvalue                 {} (error estimate {}): {:.1} digits agree (comparison supports {:.1})\n",
+        decimal(&l.spectrum_value, supported_digits(&l.spectrum_value, l.spectrum_error, 30)),
+        sci(l.spectrum_error),
+        l.agreement_digits,
+        l.agreement_cap
+    ));
+    if let Some(r) = &p.residual {
+        out.push_str(&format!(
+            "  eigen-equation residual (max / rms)    {} / {} on {} points ({} pole products as limits)\n",
+            sci(r.max),
+            sci(r.rms),
+            p.grid.len(),
+            r.pole_limits
+        ));
+    }
+    out.push_str(&format!(
+        "  L2 norm (independent quadrature)       {:.15} (tail {}; inside the grid {:.12})\n",
+        l.norm,
+        sci(p.normalization.tail),
+        l.norm_on_grid
+    ));
+    out.push_str(&format!(
+        "  decay rates (left / right)             {:.4} / {:.4}\n",
+        p.normalization.decay[0], p.normalization.decay[1]
+    ));
+    out.push_str(&format!(
+        "  zeros inside the turning points        {} ({:?}, window [{:.3}, {:.3}])\n",
+        l.zeros.count, l.zeros.method, l.zeros.window[0], l.zeros.window[1]
+    ));
+    out.push_str(&format!(
+        "  difference from the oscillator ψ       {}\n",
+        sci(l.eigenvector_difference)
+    ));
+    out.push_str(&format!(
+        "  route dependence / Cauchy defect       {} / {}\n",
+        sci(l.route_dependence),
+        sci(l.cauchy_defect)
+    ));
+    out.push_str(&format!(
+        "  negative control at a·(1 + {:.0e})      {} / {}\n",
+        c.negative_control.perturbation,
+        sci(c.negative_control.route_dependence),
+        sci(c.negative_control.cauchy_defect)
+    ));
+    out.push_str(&match c.period_agreement_digits {
+        Some(d) => format!("  Omega_alpha, R_alpha series vs path    {d:.1} digits\n"),
+        None => {
+            "  Omega_alpha, R_alpha series vs path    (modulus inside the series radius)\n".into()
+        }
+    });
+    match p.rule {
+        Some(k) => out.push_str(&format!(
+            "  reality rule k = {k}: max imaginary part {}\n",
+            sci(p.reality_defect.unwrap_or(f64::NAN))
+        )),
+        None => out.push_str("  no pointwise reality rule: the phase profile is the information\n"),
+    }
+    out.push_str("\nNumerical evidence, not proofs.\n");
+    out
+}

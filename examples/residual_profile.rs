@@ -1,0 +1,40 @@
+//! Where the eigen-equation residual of a profile is largest (development aid):
+//! `cargo run --release --example residual_profile -- T6 2 16`.
+use regwave::profile::{self, ProfileOptions, Target};
+fn main() {
+    let mut args = std::env::args().skip(1);
+    let id = args.next().unwrap_or_else(|| "T6".into());
+    let level: usize = args.next().and_then(|s| s.parse().ok()).unwrap_or(2);
+    let digits: u32 = args.next().and_then(|s| s.parse().ok()).unwrap_or(16);
+    let l =
+        regwave::laurent::Laurent::tempered(&regwave::catalogue::by_id(&id).expect("id").polygon());
+    let grid: Vec<f64> = (0..241).map(|k| -12.0 + 0.1 * k as f64).collect();
+    let p = profile::build(
+        &l,
+        &Target::Level(level),
+        &ProfileOptions {
+            grid,
+            strip: true,
+            digits,
+            allow_non_attractor: false,
+        },
+    )
+    .expect("profile");
+    let r = p.residual.expect("residual");
+    let mut worst: Vec<(f64, f64)> = p
+        .grid
+        .iter()
+        .zip(&r.per_point)
+        .filter_map(|(&x, v)| v.map(|v| (x, v)))
+        .collect();
+    worst.sort_by(|a, b| b.1.total_cmp(&a.1));
+    println!(
+        "{id} level {level}: bits {} lambda {:.3e} max {:.2e}",
+        p.precision_bits,
+        p.lambda.norm(),
+        r.max
+    );
+    for (x, v) in worst.iter().take(8) {
+        println!("  r = {x:6.2}  residual {v:.2e}");
+    }
+}
