@@ -22,6 +22,8 @@
 //! - [`precision`]: digits ↔ bits, guard bits and tolerances in one place.
 //! - [`selection`]: command-line selections (family id or vertices, level ranges) resolved.
 //! - [`report`]: JSON documents and human tables (pure formatting, no I/O).
+//! - [`plot`]: figures as SVG strings and PNG bytes from plain data (no I/O): stacked profiles,
+//!   strip heat maps, residuals, ν(a) with its attractors, agreement digits.
 
 pub mod attractor;
 pub mod catalogue;
@@ -31,6 +33,7 @@ pub mod laurent;
 pub mod numeric;
 pub mod operator;
 pub mod periods;
+pub mod plot;
 pub mod polygon;
 pub mod precision;
 pub mod quad;
