@@ -32,6 +32,23 @@
 //! licence; DejaVu changes are in the public domain; the licence text ships with that crate),
 //! so no system font or font library is needed.
 //!
+//! # Example
+//! ```
+//! use regwave::plot::{agreement_plot, to_png, AgreementBars};
+//!
+//! let bars = [AgreementBars {
+//!     family: "F0".into(),
+//!     levels: vec![0, 1, 2],
+//!     digits: vec![29.4, 28.9, 28.1],
+//!     cap: 30.0,
+//! }];
+//! let svg = agreement_plot(&bars)?;
+//! assert!(svg.contains("agreement digits"));
+//! let png = to_png(&svg, 1280)?;
+//! assert_eq!(&png[1..4], b"PNG");
+//! # Ok::<(), regwave::plot::PlotError>(())
+//! ```
+//!
 //! # Errors
 //! Degenerate input returns a [`PlotError`] and never panics: no series, a series whose
 //! abscissae and values differ in length, a series with fewer than two plottable points, an
@@ -721,7 +738,7 @@ pub struct StripMap {
     pub re: Vec<f64>,
     /// Im r of the grid rows, strictly increasing, inside [−2π, 2π].
     pub im: Vec<f64>,
-    /// `values[j][k]` = ψ(re[k] + i·im[j]); None (or a non-finite value) where not sampled.
+    /// `values[j][k]` = ψ(`re[k]` + i·`im[j]`); None (or a non-finite value) where not sampled.
     pub values: Vec<Vec<Option<Complex64>>>,
     /// Poles of ψ, as [Re r, Im r], marked by open circles.
     pub poles: Vec<[f64; 2]>,
