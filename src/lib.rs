@@ -28,6 +28,8 @@
 //! - [`verify`]: the checks of MATH.md §7 as measured figures (route dependence, Cauchy
 //!   integrals, eigenvector agreement, zeros, orthogonality, norm, the ν scan).
 //! - [`report`]: JSON documents and human tables (pure formatting, no I/O).
+//! - [`plot`]: figures as SVG strings and PNG bytes from plain data (no I/O): stacked profiles,
+//!   strip heat maps, residuals, ν(a) with its attractors, agreement digits.
 
 pub mod attractor;
 pub mod audit;
@@ -38,6 +40,7 @@ pub mod laurent;
 pub mod numeric;
 pub mod operator;
 pub mod periods;
+pub mod plot;
 pub mod polygon;
 pub mod precision;
 pub mod profile;
