@@ -13,8 +13,8 @@
 //!   possible from the singular points), y₀ the root of larger modulus.
 //! - **The other sheet is reached by continuation**: χ(ι̃z̃₀) is the value after continuing from
 //!   z̃₀ once around the branch point nearest to z₀ back to z₀ (never set by hand).
-//! - Route to a target z: along the spine to Re z, then vertically to z; both sheets follow the
-//!   same z-route.
+//! - Route to a target z: along the spine to Re z, then vertically to z (sideways around a
+//!   singular point in the way); both sheets follow the same z-route.
 //!
 //! # Accuracy
 //! That of the path integrals ([`crate::cover`]) times the condition of exp and of the
@@ -189,8 +189,12 @@ impl<T: CNum> Eigenfunction<T> {
     /// See [`crate::cover::continue_along`].
     pub fn sheets_at(&self, z: &T) -> Result<SheetValues<T>, EigenError> {
         let prec = z.prec();
-        let corner = T::from_f64s(z.re_f64(), self.spine, prec);
-        let path = vec![self.base.z.clone(), corner, z.clone()];
+        let (r, im) = (z.re_f64(), z.im_f64());
+        let corner = T::from_f64s(r, self.spine, prec);
+        // The vertical step detours around a singular point on its way (measured: a mean-value
+        // point straight above dP3's puncture z = 0 otherwise ended the route on it).
+        let mut path = vec![self.base.z.clone()];
+        path.extend(self.vertical_route(corner, z, r, self.spine, im));
         self.sheets_along(&path)
     }
 

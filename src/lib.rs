@@ -21,6 +21,7 @@
 //! - [`eigenfn`]: χ on the cover, ψ = (χ − χ∘ι̃)/D at attractor moduli.
 //! - [`profile`]: the sampled, normalized eigenfunction on a grid with its residual, at a
 //!   working precision that keeps the reported digits real.
+//! - [`figures`]: audits and profiles laid out as figures (SVG documents with captions).
 //! - [`numeric`]: the small complex-number trait shared by the f64 and MPFR paths.
 //! - [`quad`]: Gauss–Legendre rules at any precision, cached.
 //! - [`precision`]: digits ↔ bits, guard bits and tolerances in one place.
@@ -36,6 +37,7 @@ pub mod audit;
 pub mod catalogue;
 pub mod cover;
 pub mod eigenfn;
+pub mod figures;
 pub mod laurent;
 pub mod numeric;
 pub mod operator;

@@ -160,6 +160,9 @@ pub struct Profile {
     /// The reality rule k and the largest imaginary part left after applying it (relative).
     pub rule: Option<i64>,
     pub reality_defect: Option<f64>,
+    /// The factor that takes the raw ψ (χ = 1 at the base point) to the written one: the unit
+    /// norm and the phase rule.
+    pub factor: Complex64,
     pub normalization: Normalization,
 }
 
@@ -387,7 +390,7 @@ fn sample<T: CNum + Send + Sync>(
     let mut up = round(&raw.up);
     let mut down = round(&raw.down);
     let rule = eigenfn::reality_rule(laurent);
-    let reality_defect = rule.and_then(|k| {
+    let fixed = rule.and_then(|k| {
         fix_phase(
             k,
             &options.grid,
@@ -395,6 +398,8 @@ fn sample<T: CNum + Send + Sync>(
             &mut [up.as_mut_slice(), down.as_mut_slice()],
         )
     });
+    let reality_defect = fixed.map(|f| f.0);
+    let factor = normalization.factor * fixed.map(|f| f.1).unwrap_or(Complex64::new(1.0, 0.0));
     let branch_points = eig
         .curve()
         .singular_points()?
@@ -424,6 +429,7 @@ fn sample<T: CNum + Send + Sync>(
         branch_points,
         rule,
         reality_defect,
+        factor,
         normalization,
     })
 }
@@ -450,13 +456,13 @@ fn normalization<T: CNum + Send + Sync>(
 
 /// Phase rule with a reality rule k: e^{−ikr²/(8π)}ψ real and positive at the grid point of
 /// largest |ψ| (the normalization already made ψ itself positive at the peak on R); returns the
-/// largest imaginary part left, relative to that peak.
+/// largest imaginary part left, relative to that peak, and the phase turned.
 fn fix_phase(
     k: i64,
     grid: &[f64],
     main: &mut [Option<Complex64>],
     others: &mut [&mut [Option<Complex64>]],
-) -> Option<f64> {
+) -> Option<(f64, Complex64)> {
     let g: Vec<Complex64> = main
         .iter()
         .zip(grid)
@@ -476,7 +482,35 @@ fn fix_phase(
             *v *= turn;
         }
     }
-    Some(g.iter().map(|v| (v * turn).im.abs()).fold(0.0, f64::max) / peak.norm())
+    let defect = g.iter().map(|v| (v * turn).im.abs()).fold(0.0, f64::max) / peak.norm();
+    Some((defect, turn))
+}
+
+/// ψ of a profile (its normalization and phase) on the lines Im r = im[j] at the real parts `re`
+/// (values[j][k] at re[k] + i·im[j]; None on a pole), in double precision, the lines in
+/// parallel: for pictures of |ψ| and arg ψ over the strip, not for digits (at high levels the
+/// double-precision exponential loses log₁₀|λ| digits).
+///
+/// # Errors
+/// See [`ProfileError`].
+pub fn strip_map(
+    laurent: &Laurent,
+    p: &Profile,
+    re: &[f64],
+    im: &[f64],
+) -> Result<Vec<Vec<Option<Complex64>>>, ProfileError> {
+    use rayon::prelude::*;
+    let a = Complex64::new(p.modulus.to_f64(), 0.0);
+    let eig = Eigenfunction::new(laurent, a, 15.0, Some(p.spine), BASE_RE)?;
+    im.par_iter()
+        .map(|&y| {
+            Ok(eig
+                .psi_on_line(re, y)?
+                .into_iter()
+                .map(|v| v.map(|v| v * p.factor))
+                .collect())
+        })
+        .collect()
 }
 
 /// The residual from the three lines, at the working precision; products at poles as limits.

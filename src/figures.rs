@@ -1,0 +1,197 @@
+//! The figures of an audit or a profile: the data of [`crate::audit`] and [`crate::profile`]
+//! laid out for [`crate::plot`]. Pure: returns SVG documents with file stems and captions; the
+//! binary writes them (and their PNG versions on request).
+//!
+//! # Conventions
+//! - Profiles: with a reality rule k the real function e^{−ikr²/(8π)}ψ is drawn (its real part
+//!   and ±|ψ|), so that the zeros are visible; without one the phase-fixed ψ (real and positive
+//!   where |ψ| is largest on the grid) — its real part then shows oscillation, not zeros.
+//! - The strip map marks the branch points with their 2πi translates inside |Im r| ≤ 2π and the
+//!   poles of ψ on the boundary lines.
+//! - Residuals are per grid point, relative to max|ψ| on the grid, with the working precision of
+//!   each level as the floor line when all levels share it.
+
+use crate::audit::Audit;
+use crate::eigenfn;
+use crate::plot::{self, AgreementBars, NuCurve, PlotError, ProfileSeries, ResidualSeries, StripMap};
+use crate::profile::Profile;
+use num_complex::Complex64;
+
+/// One figure: its file stem, SVG document and a caption for reports.
+#[derive(Debug, Clone)]
+pub struct Figure {
+    pub name: String,
+    pub svg: String,
+    pub caption: String,
+}
+
+/// The legend of the drawn real part under the reality rule `rule`.
+fn real_label(rule: Option<i64>) -> String {
+    match rule {
+        Some(0) => "Re ψ".into(),
+        Some(-1) => "Re e^(i r²/8π) ψ".into(),
+        Some(1) => "Re e^(−i r²/8π) ψ".into(),
+        Some(k) if k < 0 => format!("Re e^({} i r²/8π) ψ", -k),
+        Some(k) => format!("Re e^(−{k} i r²/8π) ψ"),
+        None => "Re ψ (phase fixed at the peak)".into(),
+    }
+}
+
+/// Stacked profiles ψ_n(r) on R of several levels of one family.
+///
+/// # Errors
+/// See [`PlotError`].
+pub fn profiles(family: &str, levels: &[&Profile]) -> Result<Figure, PlotError> {
+    let rule = levels.first().and_then(|p| p.rule);
+    let series: Vec<ProfileSeries> = levels
+        .iter()
+        .map(|p| ProfileSeries {
+            level: p.level.unwrap_or(0),
+            modulus: p.modulus.to_f64(),
+            r: p.grid.clone(),
+            values: p
+                .grid
+                .iter()
+                .zip(&p.main)
+                .map(|(&r, v)| match (v, p.rule) {
+                    (Some(v), Some(k)) => v * eigenfn::reality_factor(k, r),
+                    (Some(v), None) => *v,
+                    (None, _) => Complex64::new(f64::NAN, f64::NAN),
+                })
+                .collect(),
+        })
+        .collect();
+    Ok(Figure {
+        name: format!("profiles-{}", file_id(family)),
+        svg: plot::stacked_profiles(family, &series, &real_label(rule))?,
+        caption: format!(
+            "{family}: eigenfunctions on R, level n drawn on the baseline n ({}, and ±|ψ|).",
+            real_label(rule)
+        ),
+    })
+}
+
+/// The eigen-equation residual against r for several levels.
+///
+/// # Errors
+/// See [`PlotError`] (no level with a residual).
+pub fn residuals(family: &str, levels: &[&Profile]) -> Result<Figure, PlotError> {
+    let series: Vec<ResidualSeries> = levels
+        .iter()
+        .filter_map(|p| {
+            let res = p.residual.as_ref()?;
+            Some(ResidualSeries {
+                label: match p.level {
+                    Some(n) => format!("n = {n}"),
+                    None => "ψ".into(),
+                },
+                r: p.grid.clone(),
+                residual: res.per_point.iter().map(|v| v.unwrap_or(f64::NAN)).collect(),
+            })
+        })
+        .collect();
+    let bits: Vec<u32> = levels.iter().map(|p| p.precision_bits).collect();
+    let floor = (!bits.is_empty() && bits.iter().all(|&b| b == bits[0]))
+        .then(|| 2f64.powi(-(bits[0] as i32)));
+    Ok(Figure {
+        name: format!("residual-{}", file_id(family)),
+        svg: plot::residual_plot(&format!("{family}: eigen-equation residual"), &series, floor)?,
+        caption: format!(
+            "{family}: |A ψ(r−2πi) + C ψ(r+2πi) − (B+a) ψ(r)| / max|ψ| per grid point, each value integrated along its own route{}.",
+            if floor.is_some() { "; dashed: the unit roundoff of the working precision" } else { "" }
+        ),
+    })
+}
+
+/// ν(a) against log a with the integer crossings and the independent eigenvalues.
+///
+/// # Errors
+/// See [`PlotError`].
+pub fn nu(family: &str, audit: &Audit) -> Result<Figure, PlotError> {
+    let curve = NuCurve {
+        log_a: audit.scan.log_a.clone(),
+        nu: audit.scan.nu.clone(),
+        crossings: audit.scan.crossings.clone(),
+        eigenvalues_log_a: audit.eigenvalues_in_window.iter().map(|e| e.ln()).collect(),
+    };
+    Ok(Figure {
+        name: format!("nu-{}", file_id(family)),
+        svg: plot::nu_plot(family, &curve)?,
+        caption: format!(
+            "{family}: the higher normal function ν(a); dots where ν is an integer (attractor moduli), ticks at the independent eigenvalues."
+        ),
+    })
+}
+
+/// Agreement digits of the attractor moduli with the independent spectrum, per level and family.
+///
+/// # Errors
+/// See [`PlotError`].
+pub fn agreement(audits: &[(&str, &Audit)]) -> Result<Figure, PlotError> {
+    let bars: Vec<AgreementBars> = audits
+        .iter()
+        .map(|(family, a)| AgreementBars {
+            family: family.to_string(),
+            levels: a.levels.iter().map(|l| l.level).collect(),
+            digits: a.levels.iter().map(|l| l.agreement_digits).collect(),
+            cap: a
+                .levels
+                .iter()
+                .map(|l| l.agreement_cap)
+                .fold(0.0, f64::max),
+        })
+        .collect();
+    let names: Vec<&str> = audits.iter().map(|a| a.0).collect();
+    Ok(Figure {
+        name: if names.len() == 1 {
+            format!("agreement-{}", file_id(names[0]))
+        } else {
+            "agreement".into()
+        },
+        svg: plot::agreement_plot(&bars)?,
+        caption: format!(
+            "Digits on which attractor moduli and independent eigenvalues agree ({}); dashed: what the spectrum's error estimate supports.",
+            names.join(", ")
+        ),
+    })
+}
+
+/// |ψ| and arg ψ over the strip |Im r| ≤ 2π from sampled lines (see [`crate::profile::strip_map`]).
+///
+/// # Errors
+/// See [`PlotError`].
+pub fn strip(
+    family: &str,
+    p: &Profile,
+    re: &[f64],
+    im: &[f64],
+    values: Vec<Vec<Option<Complex64>>>,
+) -> Result<Figure, PlotError> {
+    let two_pi = 2.0 * std::f64::consts::PI;
+    let branch_points = p
+        .branch_points
+        .iter()
+        .flat_map(|b| (-1..=1).map(move |k| [b[0], b[1] + k as f64 * two_pi]))
+        .filter(|b| b[1].abs() <= two_pi + 1e-9 && b[0] >= re[0] && b[0] <= re[re.len() - 1])
+        .collect();
+    let map = StripMap {
+        re: re.to_vec(),
+        im: im.to_vec(),
+        values,
+        poles: p.poles.iter().map(|q| q.at).collect(),
+        branch_points,
+    };
+    let level = p.level.map(|n| format!(", n = {n}")).unwrap_or_default();
+    Ok(Figure {
+        name: format!("strip-{}", file_id(family)),
+        svg: plot::strip_heatmap(&format!("{family}{level}: ψ over the strip"), &map)?,
+        caption: format!(
+            "{family}{level}: log₁₀|ψ| and arg ψ on |Im r| ≤ 2π (double precision); crosses: branch points, circles: poles of ψ."
+        ),
+    })
+}
+
+/// A family id usable in a file name ("F0*" → "F0-dual").
+pub fn file_id(family: &str) -> String {
+    family.replace('*', "-dual")
+}
