@@ -13,7 +13,9 @@
 
 use crate::audit::Audit;
 use crate::eigenfn;
-use crate::plot::{self, AgreementBars, NuCurve, PlotError, ProfileSeries, ResidualSeries, StripMap};
+use crate::plot::{
+    self, AgreementBars, NuCurve, PlotError, ProfileSeries, ResidualSeries, StripMap,
+};
 use crate::profile::Profile;
 use num_complex::Complex64;
 
@@ -86,7 +88,11 @@ pub fn residuals(family: &str, levels: &[&Profile]) -> Result<Figure, PlotError>
                     None => "ψ".into(),
                 },
                 r: p.grid.clone(),
-                residual: res.per_point.iter().map(|v| v.unwrap_or(f64::NAN)).collect(),
+                residual: res
+                    .per_point
+                    .iter()
+                    .map(|v| v.unwrap_or(f64::NAN))
+                    .collect(),
             })
         })
         .collect();
@@ -134,11 +140,7 @@ pub fn agreement(audits: &[(&str, &Audit)]) -> Result<Figure, PlotError> {
             family: family.to_string(),
             levels: a.levels.iter().map(|l| l.level).collect(),
             digits: a.levels.iter().map(|l| l.agreement_digits).collect(),
-            cap: a
-                .levels
-                .iter()
-                .map(|l| l.agreement_cap)
-                .fold(0.0, f64::max),
+            cap: a.levels.iter().map(|l| l.agreement_cap).fold(0.0, f64::max),
         })
         .collect();
     let names: Vec<&str> = audits.iter().map(|a| a.0).collect();

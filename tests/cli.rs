@@ -243,25 +243,220 @@ fn unknown_family_and_bad_ranges() {
     );
 }
 
+/// An SVG document that parses as XML; returns the concatenated text of its <text> elements and
+/// the number of drawn series elements (polylines and paths).
+fn parse_svg(path: &std::path::Path) -> (String, usize) {
+    let text = std::fs::read_to_string(path).unwrap_or_else(|e| panic!("{path:?}: {e}"));
+    let doc = roxmltree::Document::parse(&text).unwrap_or_else(|e| panic!("{path:?}: {e}"));
+    let labels: Vec<&str> = doc
+        .descendants()
+        .filter(|n| n.has_tag_name("text"))
+        .filter_map(|n| n.text())
+        .collect();
+    let series = doc
+        .descendants()
+        .filter(|n| n.has_tag_name("polyline") || n.has_tag_name("path") || n.has_tag_name("rect"))
+        .count();
+    (labels.join(" | "), series)
+}
+
 #[test]
-fn tour_writes_its_files() {
-    let dir = std::env::temp_dir().join(format!("regwave-tour-{}", std::process::id()));
+fn tour_writes_every_promised_file() {
+    // End to end: the README's main command into a temporary directory.
+    let dir = temp_dir("tour");
     let o = regwave(&["tour", "--out", dir.to_str().unwrap()]);
     assert!(o.status.success(), "{}", stderr(&o));
     for f in [
         "report.md",
+        "report.json",
         "families.json",
         "families.txt",
-        "spectrum-F0.json",
-        "spectrum-P2.json",
-        "spectrum-dP3.json",
-        "attractors-F0.json",
-        "attractors-P2.json",
-        "attractors-dP3.json",
+        "agreement.svg",
     ] {
         assert!(dir.join(f).is_file(), "missing {f}");
     }
+    // Figures: parse, axes labelled, data drawn.
+    for id in ["F0", "P2", "dP3"] {
+        for (stem, axis) in [
+            ("profiles", "r"),
+            ("residual", "relative residual"),
+            ("nu", "log a"),
+            ("strip", "Re r"),
+        ] {
+            let (labels, series) = parse_svg(&dir.join(format!("{stem}-{id}.svg")));
+            assert!(
+                labels.contains(axis),
+                "{stem}-{id}: no axis label {axis:?} in {labels}"
+            );
+            assert!(series >= 3, "{stem}-{id}: {series} drawn elements");
+        }
+    }
+    let (labels, _) = parse_svg(&dir.join("agreement.svg"));
+    assert!(
+        labels.contains("agreement digits") && labels.contains("level"),
+        "{labels}"
+    );
+    let (labels, _) = parse_svg(&dir.join("residual-F0-40digits.svg"));
+    assert!(labels.contains("relative residual"), "{labels}");
+    // The report JSON keeps the documented audit contract.
+    let v: serde_json::Value =
+        serde_json::from_str(&std::fs::read_to_string(dir.join("report.json")).unwrap()).unwrap();
+    for key in [
+        "audits",
+        "high_precision",
+        "tool_version",
+        "inputs",
+        "elapsed_s",
+        "precision_bits",
+    ] {
+        assert!(!v[key].is_null(), "report.json lacks {key}");
+    }
+    let audits = v["audits"].as_array().unwrap();
+    assert_eq!(audits.len(), 3);
+    for a in audits {
+        check_audit_contract(a);
+    }
+    // The 40-digit eigenfunction: loadable CSVs and its residual at the stated precision.
+    let high = dir.join("psi-F0-2-40digits");
+    for f in ["psi.csv", "psi_up.csv", "psi_down.csv"] {
+        assert_eq!(read_csv(&high.join(f)).len(), 201, "{f}");
+    }
+    let h = &v["high_precision"];
+    assert!(h["checks"]["eigen_equation_residual_max"].as_f64().unwrap() < 1e-30);
+    assert!(h["precision_bits"].as_u64().unwrap() >= 133);
+    // The report says what it was computed at and does not hide failures.
+    let md = std::fs::read_to_string(dir.join("report.md")).unwrap();
+    assert!(md.contains("Numerical evidence, not proofs"));
+    assert!(md.contains("bits"));
+    assert!(
+        !md.contains("unmatched**"),
+        "an unmatched level in the tour: {md}"
+    );
     let _ = std::fs::remove_dir_all(&dir);
+}
+
+/// The documented keys of an audit JSON document.
+fn check_audit_contract(a: &serde_json::Value) {
+    for key in [
+        "family",
+        "levels",
+        "orthogonality_max",
+        "unmatched",
+        "negative_control_defect",
+        "tool_version",
+        "inputs",
+        "elapsed_s",
+        "precision_bits",
+    ] {
+        assert!(a.get(key).is_some(), "audit lacks {key}");
+    }
+    for l in a["levels"].as_array().unwrap() {
+        for key in [
+            "level",
+            "nu",
+            "modulus",
+            "spectrum_value",
+            "agreement_digits",
+            "residual_max",
+            "norm",
+            "zeros_inside",
+            "decay_rate",
+        ] {
+            assert!(l.get(key).is_some(), "level lacks {key}: {l}");
+        }
+        assert_eq!(l["zeros_inside"], l["level"]);
+    }
+}
+
+#[test]
+fn audit_and_check_json_contracts() {
+    let dir = temp_dir("audit");
+    let o = regwave(&[
+        "audit",
+        "--family",
+        "P2",
+        "--levels",
+        "0..2",
+        "--json",
+        "--out",
+        dir.to_str().unwrap(),
+    ]);
+    assert!(o.status.success(), "{}", stderr(&o));
+    let a: serde_json::Value = serde_json::from_slice(&o.stdout).unwrap();
+    check_audit_contract(&a);
+    assert_eq!(a["unmatched"].as_array().unwrap().len(), 0);
+    // The residual at double precision, the negative control far above it.
+    for l in a["levels"].as_array().unwrap() {
+        assert!(l["residual_max"].as_f64().unwrap() < 1e-9, "{l}");
+    }
+    assert!(a["negative_control_defect"].as_f64().unwrap() > 1e-8);
+    for f in [
+        "audit.md",
+        "audit.json",
+        "profiles-P2.svg",
+        "strip-P2.svg",
+        "nu-P2.svg",
+        "residual-P2.svg",
+        "agreement-P2.svg",
+    ] {
+        assert!(dir.join(f).is_file(), "missing {f}");
+    }
+    // Without --force an existing report is not replaced.
+    rejects(
+        &[
+            "audit",
+            "--family",
+            "P2",
+            "--levels",
+            "0..2",
+            "--out",
+            dir.to_str().unwrap(),
+        ],
+        "--force",
+    );
+    let o = regwave(&["check", "--family", "dP3", "--level", "1", "--json"]);
+    assert!(o.status.success(), "{}", stderr(&o));
+    let c: serde_json::Value = serde_json::from_slice(&o.stdout).unwrap();
+    for key in [
+        "family",
+        "levels",
+        "negative_control_defect",
+        "tool_version",
+        "inputs",
+        "elapsed_s",
+        "precision_bits",
+    ] {
+        assert!(c.get(key).is_some(), "check lacks {key}");
+    }
+    assert_eq!(c["levels"][0]["zeros_inside"], 1);
+    let _ = std::fs::remove_dir_all(&dir);
+}
+
+#[test]
+fn audit_and_check_refuse_bad_input() {
+    rejects(
+        &["audit", "--family", "F0", "--levels", "3..1"],
+        "level range",
+    );
+    rejects(&["audit", "--family", "P2*", "--levels", "0..1"], "strip");
+    rejects(
+        &[
+            "audit",
+            "--family",
+            "F0",
+            "--levels",
+            "0..1",
+            "--out",
+            "/proc/regwave-no",
+        ],
+        "cannot",
+    );
+    rejects(
+        &["check", "--family", "F0", "--modulus", "20"],
+        "not an attractor modulus: nu =",
+    );
+    rejects(&["check", "--family", "F0", "--modulus", "3"], "threshold");
+    rejects(&["check", "--family", "F0"], "--level");
 }
 
 #[test]
