@@ -5,12 +5,16 @@ fn main() {
     let mut args = std::env::args().skip(1);
     let id = args.next().unwrap_or_else(|| "F0".into());
     let top: usize = args.next().and_then(|s| s.parse().ok()).unwrap_or(4);
+    let low: usize = std::env::var("AUDIT_LOW")
+        .ok()
+        .and_then(|s| s.parse().ok())
+        .unwrap_or(0);
     let digits: u32 = args.next().and_then(|s| s.parse().ok()).unwrap_or(16);
     let l =
         regwave::laurent::Laurent::tempered(&regwave::catalogue::by_id(&id).expect("id").polygon());
     let start = Instant::now();
     let options = AuditOptions {
-        levels: 0..=top,
+        levels: low..=top,
         digits,
         grid: (0..241).map(|k| -12.0 + 0.1 * k as f64).collect(),
         perturbation: 1e-6,

@@ -1,0 +1,113 @@
+//! Audits: every strip family, levels 0..4, at double precision; F0 and P2 at 40 digits.
+//! Every attractor modulus is a proven eigenvalue; that every eigenvalue is an attractor modulus
+//! is conjectured — both directions are checked, and an unmatched level fails the test with its
+//! numbers (a finding to report, never something to tune away).
+
+use regwave::audit::{self, Audit, AuditOptions};
+use regwave::catalogue;
+use regwave::selection;
+
+fn run(id: &str, digits: u32) -> Audit {
+    let l = selection::resolve(Some(id), None, None).unwrap().laurent;
+    let options = AuditOptions {
+        levels: 0..=4,
+        digits,
+        grid: (0..=120).map(|k| -12.0 + 0.2 * k as f64).collect(),
+        perturbation: 1e-6,
+        spectrum_basis: 200,
+        spectrum_max_basis: 300,
+    };
+    audit::run(&l, &options, &|_| {}).unwrap_or_else(|e| panic!("{id}: {e}"))
+}
+
+fn residual_max(a: &Audit) -> f64 {
+    a.levels
+        .iter()
+        .map(|l| l.profile.residual.as_ref().unwrap().max)
+        .fold(0.0, f64::max)
+}
+
+#[test]
+fn every_family_levels_zero_to_four_at_double_precision() {
+    // Residual ≤ 1e-9 (issue requirement), matched both ways, zeros = level (common practice,
+    // no source), orthonormal (Ô is self-adjoint: eigenfunctions of distinct eigenvalues are
+    // orthogonal), and the negative control off the attractor far above the defect at it.
+    for f in catalogue::all().iter().filter(|f| f.applicable) {
+        let a = run(f.id, 16);
+        assert!(
+            a.unmatched.is_empty(),
+            "{}: unmatched {:?}",
+            f.id,
+            a.unmatched
+        );
+        let r = residual_max(&a);
+        assert!(r <= 1e-9, "{}: residual {r:e}", f.id);
+        for l in &a.levels {
+            assert_eq!(
+                l.zeros.count, l.level,
+                "{} level {}: {:?}",
+                f.id, l.level, l.zeros
+            );
+            assert!(
+                (l.norm - 1.0).abs() < 1e-12,
+                "{} level {}: norm {}",
+                f.id,
+                l.level,
+                l.norm
+            );
+            assert!(
+                l.agreement_digits >= 6.0,
+                "{} level {}: {} digits",
+                f.id,
+                l.level,
+                l.agreement_digits
+            );
+        }
+        assert!(
+            a.orthogonality_max < 1e-9,
+            "{}: {:e}",
+            f.id,
+            a.orthogonality_max
+        );
+        let nc = &a.negative_control;
+        assert!(
+            nc.defect() > 1e-8,
+            "{}: negative control {:e}",
+            f.id,
+            nc.defect()
+        );
+        assert!(
+            nc.route_dependence_at_attractor
+                .max(nc.cauchy_defect_at_attractor)
+                < 1e-9,
+            "{}: defect at the attractor {:?}",
+            f.id,
+            nc
+        );
+        assert!(a.scan.increasing, "{}: ν not increasing on the scan", f.id);
+    }
+}
+
+#[test]
+fn f0_and_p2_at_forty_digits() {
+    // Residual ≤ 1e-30 at 40 digits (issue requirement; measured in an independent prototype:
+    // residual ≈ 10^−(digits − 6)).
+    for id in ["F0", "P2"] {
+        let a = run(id, 40);
+        assert!(a.unmatched.is_empty(), "{id}: {:?}", a.unmatched);
+        let r = residual_max(&a);
+        assert!(r <= 1e-30, "{id}: residual {r:e} at 40 digits");
+        for l in &a.levels {
+            assert!(
+                l.profile.precision_bits >= 133,
+                "{id}: {} bits",
+                l.profile.precision_bits
+            );
+            assert!(
+                l.modulus_digits >= 40,
+                "{id}: modulus to {} digits",
+                l.modulus_digits
+            );
+        }
+    }
+}
