@@ -490,7 +490,13 @@ fn build_command(args: &BuildArgs) -> Result<(), Failure> {
         digits: args.digits,
         allow_non_attractor: args.allow_non_attractor,
     };
-    let p = profile::build(&sel.laurent, &target, &options)?;
+    let bar = progress_bar(2, args.digits <= 16, &format!("build {}", sel.family.id));
+    let tick = |what: &str| {
+        bar.set_message(what.to_string());
+        bar.inc(1);
+    };
+    let p = profile::build_observed(&sel.laurent, &target, &options, &tick)?;
+    bar.finish_and_clear();
     let elapsed = start.elapsed().as_secs_f64();
     let mut inputs = family_inputs(&args.family, &sel);
     inputs["level"] = json!(args.level);
@@ -817,11 +823,18 @@ fn tour(out: &Path, png: bool) -> Result<(), Failure> {
         .map(|id| selection::resolve(Some(id), None, None).map_err(Failure::from))
         .collect::<Result<_, _>>()?;
     eprintln!("regwave tour: auditing {} ...", TOUR_FAMILIES.join(", "));
+    let bar = progress_bar(TOUR_FAMILIES.len() as u64 + 1, false, "tour");
     let audits: Vec<(Audit, f64)> = selections
         .par_iter()
-        .map(|sel| run_audit(sel, TOUR_LEVELS, 16, &grid, false))
+        .map(|sel| {
+            let done = run_audit(sel, TOUR_LEVELS, 16, &grid, true);
+            bar.set_message(format!("{} audited", sel.family.id));
+            bar.inc(1);
+            done
+        })
         .collect::<Result<_, _>>()?;
-    eprintln!("regwave tour: the {}-digit eigenfunction ...", TOUR_HIGH.2);
+    bar.set_message(format!("{}-digit eigenfunction", TOUR_HIGH.2));
+    bar.suspend(|| eprintln!("regwave tour: the {}-digit eigenfunction ...", TOUR_HIGH.2));
     let high_start = Instant::now();
     let high_sel = selection::resolve(Some(TOUR_HIGH.0), None, None)?;
     let high = profile::build(
@@ -837,6 +850,7 @@ fn tour(out: &Path, png: bool) -> Result<(), Failure> {
         },
     )?;
     let high_elapsed = high_start.elapsed().as_secs_f64();
+    bar.finish_and_clear();
     let mut figs = Vec::new();
     for (sel, (audit, _)) in selections.iter().zip(&audits) {
         figs.extend(family_figures(sel, audit)?);

@@ -183,8 +183,23 @@ pub fn build(
     target: &Target,
     options: &ProfileOptions,
 ) -> Result<Profile, ProfileError> {
+    build_observed(laurent, target, options, &|_| {})
+}
+
+/// As [`build`], telling `progress` of every finished stage ("modulus", then "sampled" once per
+/// sampling pass).
+///
+/// # Errors
+/// See [`ProfileError`].
+pub fn build_observed(
+    laurent: &Laurent,
+    target: &Target,
+    options: &ProfileOptions,
+    progress: &(dyn Fn(&str) + Sync),
+) -> Result<Profile, ProfileError> {
     let requested = options.digits as f64;
     let resolved = resolve(laurent, target, options)?;
+    progress("modulus");
     // Digits the exponential of the regulator integral costs.
     let lambda = lambda_estimate(laurent, resolved.modulus.to_f64())?;
     let lost = lambda.max(1.0).log10();
@@ -197,6 +212,7 @@ pub fn build(
         requested + lost
     };
     let mut profile = sample_at(laurent, target, &resolved, work_digits, double, options)?;
+    progress("sampled");
     // The loss is only measurable below the working precision, so the check repeats (at most
     // three times) until at least DIGITS_LEFT_MIN digits are left everywhere on R. On the strip
     // lines far out at high levels |ψ| is astronomically small against |χ|: their accuracy is
@@ -213,6 +229,7 @@ pub fn build(
             .ceil()
             .min(MAX_DIGITS as f64);
         profile = sample_at(laurent, target, &resolved, need, false, options)?;
+        progress("sampled again at a higher precision");
     }
     profile.lambda_digits_lost = lost;
     Ok(profile)
