@@ -6,6 +6,8 @@
 //! `Curve::discriminant_polynomial` (both against 256 bits), the error of a second-order predictor
 //! over a node spacing of 0.3 for y (relative to the root gap) and for D (relative to |D|), and
 //! the relative difference of ψ on R in double precision and at 40 digits.
+mod common;
+
 use num_complex::Complex64;
 use regwave::cover::Curve;
 use regwave::eigenfn::Eigenfunction;
@@ -27,13 +29,7 @@ fn disc_direct<T: CNum>(curve: &Curve<T>, x: &T) -> T {
 }
 
 fn main() {
-    let id = std::env::args().nth(1).unwrap_or_else(|| "F0*".into());
-    let level: usize = std::env::args()
-        .nth(2)
-        .and_then(|s| s.parse().ok())
-        .unwrap_or(1);
-    let l =
-        regwave::laurent::Laurent::tempered(&regwave::catalogue::by_id(&id).expect("id").polygon());
+    let (id, l, level) = common::family_and_level("F0*", 1);
     let bits = 256;
     let a_hi = regwave::attractor::solve_levels(&l, level..=level, 40).expect("attractor")[0]
         .modulus

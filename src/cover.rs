@@ -591,6 +591,31 @@ impl<T: CNum> Curve<T> {
         Ok((order(&self.parts.a)?, order(&self.parts.c)?))
     }
 
+    /// How the two roots behave at the two ends of the z-line, `[x → 0, x → ∞]` (Re z → −∞, +∞),
+    /// read off the Newton polygon of `A y² + (B + a) y + C`: with e₁, e₀, e₋₁ the extreme
+    /// x-exponents of A, B + a (a counts at exponent 0) and C at that end, the end is
+    /// [`EndRoots::Separate`] when the point (e₀, 0) lies outside the segment from (e₁, 1) to
+    /// (e₋₁, −1), [`EndRoots::Merging`] when it lies on it (an edge of lattice length 2 whose
+    /// binomial polynomial (1 + w)² has a double root) and [`EndRoots::Branched`] when inside.
+    pub fn end_roots(&self) -> [EndRoots; 2] {
+        let extreme = |u: &Univariate, side: i64| {
+            u.terms
+                .iter()
+                .map(|t| side * t.0)
+                .max()
+                .unwrap_or(i64::MIN / 4)
+        };
+        [-1, 1].map(|side| {
+            let (e1, em1) = (extreme(&self.parts.a, side), extreme(&self.parts.c, side));
+            let e0 = extreme(&self.parts.b, side).max(0);
+            match (2 * e0).cmp(&(e1 + em1)) {
+                std::cmp::Ordering::Greater => EndRoots::Separate,
+                std::cmp::Ordering::Equal => EndRoots::Merging,
+                std::cmp::Ordering::Less => EndRoots::Branched,
+            }
+        })
+    }
+
     /// Representatives in z (Im z ∈ (−π, π]) of all singular points: branch points first,
     /// then the puncture z = 0 if A or C vanishes at x = −1.
     ///
@@ -639,6 +664,18 @@ pub struct Fiber<T> {
     pub da: T,
     pub db: T,
     pub dc: T,
+}
+
+/// The two roots at one end of the z-line (see [`Curve::end_roots`]).
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum EndRoots {
+    /// Two roots of different orders in x: the sheets stay apart.
+    Separate,
+    /// Both roots tend to the same leading term, `y ≈ c x^m (1 ± O(|x|^{∓1/2}))`: the end is a
+    /// branch point and the relative gap of the roots shrinks like e^{−|Re z|/2}.
+    Merging,
+    /// `y ~ ±c x^{m/2}` with m odd: the end is a branch point and the roots stay apart.
+    Branched,
 }
 
 /// Kind of a singular point of the cover over the z-plane.
