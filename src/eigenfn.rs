@@ -74,6 +74,9 @@ pub struct Eigenfunction<T> {
     pub base: Point<T>,
     /// ι̃z̃₀ reached by continuation, with the exponent integral accumulated on the way.
     pub base_other: (Point<T>, T),
+    /// The branch point (z, a 2πi translate nearest to z₀) that the continuation to ι̃z̃₀ went
+    /// around once.
+    pub sheet_branch_point: [f64; 2],
     march: March,
 }
 
@@ -115,9 +118,12 @@ impl<T: CNum> Eigenfunction<T> {
             spine: c,
             base: base.clone(),
             base_other: (base.clone(), like.int_like(0)),
+            sheet_branch_point: [f64::NAN; 2],
             march,
         };
-        eig.base_other = eig.other_sheet_base()?;
+        let (other, exponent, branch_point) = eig.other_sheet_base()?;
+        eig.base_other = (other, exponent);
+        eig.sheet_branch_point = branch_point;
         Ok(eig)
     }
 
@@ -138,9 +144,9 @@ impl<T: CNum> Eigenfunction<T> {
         (-(e.clone() / two_pi_i)).exp()
     }
 
-    /// Continues z̃₀ once around the branch point nearest to z₀ and back: ι̃z̃₀ and the exponent
-    /// integral `∫ (z d log y − λ ω)` along that loop.
-    fn other_sheet_base(&self) -> Result<(Point<T>, T), EigenError> {
+    /// Continues z̃₀ once around the branch point nearest to z₀ and back: ι̃z̃₀, the exponent
+    /// integral `∫ (z d log y − λ ω)` along that loop, and the branch point.
+    fn other_sheet_base(&self) -> Result<(Point<T>, T, [f64; 2]), EigenError> {
         let z0 = [self.base.z.re_f64(), self.base.z.im_f64()];
         let two_pi = 2.0 * std::f64::consts::PI;
         // Nearest branch point (any 2πi translate) to z₀.
@@ -186,8 +192,7 @@ impl<T: CNum> Eigenfunction<T> {
         path.push(self.base.z.clone());
         let (end, ints) =
             continue_along(&self.curve, &self.singular, &self.base, &path, &self.march)?;
-        let exponent = ints.eta - self.lambda.clone() * ints.omega;
-        Ok((end, exponent))
+        Ok((end, self.exponent(&ints), b))
     }
 
     /// χ on both sheets and D at z, along the route spine → vertical.
