@@ -1,15 +1,11 @@
 //! Digits lost to the cancellation in χ − χ∘ι̃ along R (development aid):
 //! `cargo run --release --example cancellation -- F0 3`.
+mod common;
+
 use num_complex::Complex64;
 use regwave::eigenfn::Eigenfunction;
 fn main() {
-    let id = std::env::args().nth(1).unwrap_or_else(|| "F0".into());
-    let level: usize = std::env::args()
-        .nth(2)
-        .and_then(|s| s.parse().ok())
-        .unwrap_or(1);
-    let l =
-        regwave::laurent::Laurent::tempered(&regwave::catalogue::by_id(&id).expect("id").polygon());
+    let (_, l, level) = common::family_and_level("F0", 1);
     let a = regwave::attractor::solve_levels(&l, level..=level, 20).expect("a")[0]
         .modulus
         .to_f64();

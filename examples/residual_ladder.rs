@@ -1,17 +1,13 @@
 //! Eigen-equation residual at a few points for several working precisions, pointwise and by
 //! spine marching (development aid): `cargo run --release --example residual_ladder -- F0 5`.
+mod common;
+
 use regwave::eigenfn::Eigenfunction;
 use regwave::numeric::CNum;
 use regwave::operator::QuantumCurve;
 use rug::Complex;
 fn main() {
-    let id = std::env::args().nth(1).unwrap_or_else(|| "F0".into());
-    let level: usize = std::env::args()
-        .nth(2)
-        .and_then(|s| s.parse().ok())
-        .unwrap_or(0);
-    let l =
-        regwave::laurent::Laurent::tempered(&regwave::catalogue::by_id(&id).expect("id").polygon());
+    let (_, l, level) = common::family_and_level("F0", 0);
     let a = regwave::attractor::solve_levels(&l, level..=level, 80).expect("a")[0]
         .modulus
         .clone();

@@ -449,12 +449,14 @@ fn profile_json(p: &Profile, family: &str, files: &[&str], inputs: Value, elapse
         "normalization": {
             "rule": "unit L2 norm on R; with a phase rule, exp(-i k r^2/(8 pi)) psi real and positive where |psi| is largest on the grid, else psi itself",
             "raw_norm_squared": p.normalization.raw_norm_squared,
-            "quadrature_range": p.normalization.range,
+            "quadrature_range": [-p.normalization.range_ends[0], p.normalization.range_ends[1]],
             "quadrature_step": p.normalization.step,
             "tail_fraction": p.normalization.tail,
             "peak_r": p.normalization.peak,
         },
         "checks": {
+            "decay_power_left": p.normalization.decay_power[0],
+            "decay_power_right": p.normalization.decay_power[1],
             "eigen_equation_residual_max": p.residual.as_ref().map(|r| r.max),
             "eigen_equation_residual_rms": p.residual.as_ref().map(|r| r.rms),
             "residual_points_with_pole_limits": p.residual.as_ref().map(|r| r.pole_limits),

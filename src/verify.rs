@@ -369,21 +369,23 @@ pub fn orthogonality(levels: &[&Normalization]) -> Vec<Vec<f64>> {
     out
 }
 
-/// ⟨ψ_a, ψ_b⟩ of two normalized eigenfunctions from their quadrature samples.
+/// ⟨ψ_a, ψ_b⟩ of two normalized eigenfunctions from their quadrature samples (trapezoid on the
+/// overlap of the two ranges, with the step of `a`; a sample of `b` is taken at the nearest node).
 pub fn overlap(a: &Normalization, b: &Normalization) -> Complex64 {
     let h = a.step;
     let at = |m: &Normalization, r: f64| -> Complex64 {
-        let k = ((r + m.range) / m.step).round();
+        let k = ((r + m.range_ends[0]) / m.step).round();
         if k < 0.0 || k as usize >= m.samples.len() {
             return Complex64::new(0.0, 0.0);
         }
         m.samples[k as usize] * m.factor
     };
-    let l = a.range.min(b.range);
-    let n = (2.0 * l / h).round() as usize;
+    let lo = -a.range_ends[0].min(b.range_ends[0]);
+    let hi = a.range_ends[1].min(b.range_ends[1]);
+    let n = ((hi - lo) / h).round() as usize;
     let mut sum = Complex64::new(0.0, 0.0);
     for k in 0..=n {
-        let r = -l + k as f64 * h;
+        let r = lo + k as f64 * h;
         let w = if k == 0 || k == n { 0.5 } else { 1.0 };
         sum += w * at(a, r).conj() * at(b, r);
     }

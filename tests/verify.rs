@@ -108,9 +108,10 @@ fn norm_by_an_independent_quadrature() {
     assert!((fine - 1.0).abs() < 1e-12, "norm {fine}");
     let mut cut = n.clone();
     let keep = (4.0 / n.step).round() as usize;
-    let centre = (n.range / n.step).round() as usize;
+    let centre = (n.range_ends[0] / n.step).round() as usize;
     cut.samples = n.samples[centre - keep..=centre + keep].to_vec();
-    cut.range = keep as f64 * n.step;
+    cut.range_ends = [keep as f64 * n.step; 2];
+    cut.range = cut.range_ends[0];
     cut.tail = 0.0;
     let short = verify::norm_coarse(&cut);
     assert!(
