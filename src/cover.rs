@@ -131,6 +131,10 @@ pub struct PathIntegrals<T> {
     pub omega_daa: T,
     /// `∫ dz` (end minus start).
     pub dz: T,
+    /// `∫ z d log(C/A)`: with it the exponent of the other sheet needs no continuation of its
+    /// own — on ιy = C/(A y), D changes sign, so `∫ (z d log(ιy) − λ dz/D_ι) = twist −
+    /// ∫ (z d log y − λ dz/D)` (an identity of integrands, node by node).
+    pub twist: T,
     /// Estimated absolute error of `omega` and `eta` (the larger).
     pub error: f64,
     /// Steps taken.
@@ -145,6 +149,7 @@ impl<T: CNum> PathIntegrals<T> {
             omega_da: like.int_like(0),
             omega_daa: like.int_like(0),
             dz: like.int_like(0),
+            twist: like.int_like(0),
             error: 0.0,
             steps: 0,
         }
@@ -158,6 +163,7 @@ impl<T: CNum> PathIntegrals<T> {
             omega_da: self.omega_da + next.omega_da,
             omega_daa: self.omega_daa + next.omega_daa,
             dz: self.dz + next.dz,
+            twist: self.twist + next.twist,
             error: self.error + next.error,
             steps: self.steps + next.steps,
         }
@@ -980,6 +986,7 @@ pub fn continue_sheet<T: CNum>(
             let mut sum_eta = start.z.int_like(0);
             let mut sum_da = start.z.int_like(0);
             let mut sum_daa = start.z.int_like(0);
+            let mut sum_twist = start.z.int_like(0);
             let mut size: f64 = 0.0;
             for (t, w) in &rule {
                 let z = mid.clone() + half.clone() * t.clone();
@@ -1002,6 +1009,10 @@ pub fn continue_sheet<T: CNum>(
                 sum_daa = sum_daa + w.clone() * g2;
                 sum_omega = sum_omega + w.clone() * inv_d;
                 sum_eta = sum_eta + w.clone() * eta;
+                // d log(C/A)/dz = (x C')/C − (x A')/A: the Euler derivatives (dx/x = dz).
+                let twist =
+                    z.clone() * (fib.dc.clone() / fib.c.clone() - fib.da.clone() / fib.a.clone());
+                sum_twist = sum_twist + w.clone() * twist;
                 z_prev = z;
             }
             let end_fiber = curve.fiber(&end);
@@ -1012,6 +1023,7 @@ pub fn continue_sheet<T: CNum>(
             acc.eta = acc.eta + sum_eta * half.clone();
             acc.omega_da = acc.omega_da + sum_da * half.clone();
             acc.omega_daa = acc.omega_daa + sum_daa * half.clone();
+            acc.twist = acc.twist + sum_twist * half.clone();
             let hh = 2.0 * half.abs_f64();
             // A-priori Gauss–Legendre bound for this step's ellipse plus rounding (module docs).
             acc.error += hh * size * (rho.powi(-2 * nodes as i32) + eps * nodes as f64);

@@ -14,7 +14,11 @@
 //! - **The other sheet is reached by continuation**: χ(ι̃z̃₀) is the value after continuing from
 //!   z̃₀ once around the branch point nearest to z₀ back to z₀ (never set by hand).
 //! - Route to a target z: along the spine to Re z, then vertically to z (sideways around a
-//!   singular point in the way); both sheets follow the same z-route.
+//!   singular point in the way); both sheets follow the same z-route. Only the first sheet is
+//!   continued along it: on the other sheet ιy = C/(A y) and D changes sign, so its exponent
+//!   integrand is `z d log(C/A) − (z d log y − λω)` node by node, and the continuation carries
+//!   `∫ z d log(C/A)` ([`crate::cover::PathIntegrals::twist`]) beside the rest (half the work;
+//!   measured: the same residuals to the last digit shown, F0 level 5 at 20 and 40 digits).
 //!
 //! # Accuracy
 //! That of the path integrals ([`crate::cover`]) times the condition of exp and of the
@@ -37,8 +41,7 @@
 //! MATH.md §5 (the construction, and the checks it was confirmed with).
 
 use crate::cover::{
-    continue_along, continue_sheet, CoverError, Curve, March, Point, SheetPoint, Singular,
-    SingularKind,
+    continue_along, continue_sheet, CoverError, Curve, March, Point, Singular, SingularKind,
 };
 use crate::laurent::Laurent;
 use crate::numeric::CNum;
@@ -142,6 +145,12 @@ impl<T: CNum> Eigenfunction<T> {
         ints.eta.clone() - self.lambda.clone() * ints.omega.clone()
     }
 
+    /// The exponent integral of the same z-path on the other sheet: `twist − exponent`
+    /// ([`crate::cover::PathIntegrals::twist`]), so one continuation serves both sheets.
+    fn other_exponent(&self, ints: &crate::cover::PathIntegrals<T>) -> T {
+        ints.twist.clone() - self.exponent(ints)
+    }
+
     /// `χ = exp(−e/(2πi))` for an accumulated exponent e.
     fn chi(&self, e: &T) -> T {
         let like = &self.lambda;
@@ -220,26 +229,17 @@ impl<T: CNum> Eigenfunction<T> {
     /// # Errors
     /// See [`crate::cover::continue_along`].
     pub fn sheets_along(&self, path: &[T]) -> Result<SheetValues<T>, EigenError> {
-        let (s1, s2) = self.base_sheets()?;
+        let s1 = self.curve.sheet_point(&self.base)?;
         let (p1, i1) = continue_sheet(&self.curve, &self.singular, &s1, path, &self.march)?;
-        // The other sheet's end point is ι̃ of p1; D is read on p1.
-        let (_, i2) = continue_sheet(&self.curve, &self.singular, &s2, path, &self.march)?;
+        // The other sheet follows the same z-path from ι̃z̃₀: its exponent is that of this
+        // sheet's integrals; D is read on p1.
         let chi = self.chi(&self.exponent(&i1));
-        let chi_other = self.chi(&(self.base_other.1.clone() + self.exponent(&i2)));
+        let chi_other = self.chi(&(self.base_other.1.clone() + self.other_exponent(&i1)));
         Ok(SheetValues {
             chi,
             chi_other,
             d: p1.d,
         })
-    }
-
-    /// The base point and ι̃ of it with their sheets (D), for continuations that carry the sheet
-    /// by D ([`crate::cover::continue_sheet`]).
-    fn base_sheets(&self) -> Result<(SheetPoint<T>, SheetPoint<T>), EigenError> {
-        Ok((
-            self.curve.sheet_point(&self.base)?,
-            self.curve.sheet_point(&self.base_other.0)?,
-        ))
     }
 
     /// ψ at every vertex of a route starting at the base point (both sheets continued along it):
@@ -250,19 +250,17 @@ impl<T: CNum> Eigenfunction<T> {
     /// See [`crate::cover::continue_along`].
     pub fn psi_along(&self, path: &[T]) -> Result<Vec<T>, EigenError> {
         let like = &self.lambda;
-        let (mut a1, mut a2) = self.base_sheets()?;
+        let mut a1 = self.curve.sheet_point(&self.base)?;
         let (mut e1, mut e2) = (like.int_like(0), self.base_other.1.clone());
         let mut out = Vec::with_capacity(path.len());
         for w in path.windows(2) {
             let (p1, i1) = continue_sheet(&self.curve, &self.singular, &a1, w, &self.march)?;
-            let (p2, i2) = continue_sheet(&self.curve, &self.singular, &a2, w, &self.march)?;
             e1 = e1 + self.exponent(&i1);
-            e2 = e2 + self.exponent(&i2);
+            e2 = e2 + self.other_exponent(&i1);
             let chi = self.chi(&e1);
             let chi_other = self.chi(&e2);
             out.push((chi - chi_other) / p1.d.clone());
             a1 = p1;
-            a2 = p2;
         }
         Ok(out)
     }
@@ -356,17 +354,15 @@ impl<T: CNum> Eigenfunction<T> {
         // Spine start: the base point, or its vertical translate onto the lower spine. The sheets
         // are carried by D from point to point (y cannot tell them apart far out where the roots
         // merge).
-        let (mut s1, mut s2) = self.base_sheets()?;
+        let mut s1 = self.curve.sheet_point(&self.base)?;
         let (mut e1, mut e2) = (like.int_like(0), self.base_other.1.clone());
         if (spine - self.spine).abs() > 1e-12 {
             let start = T::from_f64s(self.base.z.re_f64(), spine, prec);
             let path = [self.base.z.clone(), start];
             let (p1, i1) = continue_sheet(&self.curve, &self.singular, &s1, &path, &self.march)?;
-            let (p2, i2) = continue_sheet(&self.curve, &self.singular, &s2, &path, &self.march)?;
             e1 = e1 + self.exponent(&i1);
-            e2 = e2 + self.exponent(&i2);
+            e2 = e2 + self.other_exponent(&i1);
             s1 = p1;
-            s2 = p2;
         }
         let base_re = self.base.z.re_f64();
         let mut out: Vec<Option<T>> = vec![None; grid.len()];
@@ -384,7 +380,7 @@ impl<T: CNum> Eigenfunction<T> {
             .filter(|&i| grid[i] < base_re)
             .collect();
         for side in [right, left] {
-            let (mut a1, mut f1, mut a2, mut f2) = (s1.clone(), e1.clone(), s2.clone(), e2.clone());
+            let (mut a1, mut f1, mut f2) = (s1.clone(), e1.clone(), e2.clone());
             for i in side {
                 let r = grid[i];
                 let z = T::from_f64s(r, 0.0, prec) + line_im.clone();
@@ -395,12 +391,9 @@ impl<T: CNum> Eigenfunction<T> {
                 let along = [a1.z.clone(), on_spine.clone()];
                 let (p1, i1) =
                     continue_sheet(&self.curve, &self.singular, &a1, &along, &self.march)?;
-                let (p2, i2) =
-                    continue_sheet(&self.curve, &self.singular, &a2, &along, &self.march)?;
                 f1 = f1 + self.exponent(&i1);
-                f2 = f2 + self.exponent(&i2);
+                f2 = f2 + self.other_exponent(&i1);
                 a1 = p1;
-                a2 = p2;
                 if self.distance_to_singular(&z) < NEAR_SINGULAR {
                     out[i] = Some(self.psi(&z)?);
                     continue;
@@ -408,9 +401,8 @@ impl<T: CNum> Eigenfunction<T> {
                 let down = self.vertical_route(on_spine, &z, r, spine, im);
                 let (q1, j1) =
                     continue_sheet(&self.curve, &self.singular, &a1, &down, &self.march)?;
-                let (_, j2) = continue_sheet(&self.curve, &self.singular, &a2, &down, &self.march)?;
                 let chi = self.chi(&(f1.clone() + self.exponent(&j1)));
-                let chi_other = self.chi(&(f2.clone() + self.exponent(&j2)));
+                let chi_other = self.chi(&(f2.clone() + self.other_exponent(&j1)));
                 let d = q1.d;
                 let diff = chi.clone() - chi_other.clone();
                 let big = chi.abs_f64().max(chi_other.abs_f64()) / d.abs_f64();
