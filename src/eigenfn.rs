@@ -705,14 +705,13 @@ impl<T: CNum> Eigenfunction<T> {
         // worked. The ends differ: |ψ| ~ e^{−|r|/2} needs twice the range of e^{−|r|}.
         let mut ends = [4.0f64, 4.0];
         let mut open = [true, true];
+        // The scale: |ψ| on [−8, 8] by one march (an underestimate of the peak only makes the
+        // stopping rule stricter; the peak itself is taken from the final line).
+        let scale_grid: Vec<f64> = (-32..=32).map(|k| k as f64 * 0.25).collect();
+        for v in self.psi_on_line(&scale_grid, 0.0)?.into_iter().flatten() {
+            peak_value = peak_value.max(v.abs_f64());
+        }
         while open[0] || open[1] {
-            let probe = (-8..=8)
-                .map(|k| {
-                    let end = if k < 0 { ends[0] } else { ends[1] };
-                    at(k as f64 * end / 16.0).map(|v| v.norm())
-                })
-                .collect::<Result<Vec<_>, _>>()?;
-            peak_value = probe.iter().copied().fold(peak_value, f64::max);
             for (side, sign) in [(0, -1.0), (1, 1.0)] {
                 if !open[side] {
                     continue;
