@@ -164,8 +164,18 @@ impl Family {
                 steps: 0,
                 error: c.error,
             });
-        let p = periods::periods(&self.laurent, Complex64::new(a, 0.0), 15.0, alpha)?;
-        Ok((p.nu.re, p.nu_da.re * a))
+        match periods::periods(&self.laurent, Complex64::new(a, 0.0), 15.0, alpha) {
+            Ok(p) => Ok((p.nu.re, p.nu_da.re * a)),
+            // At large moduli two branch points can come closer than double precision resolves
+            // (P2 from level 19 on: a pair at log a ± iε with ε ≈ 1e-8, measured): the β loop
+            // then fails in double precision, and the same values are computed in MPFR at
+            // 128 bits instead.
+            Err(_) => {
+                let bits = 128;
+                let (nu, slope, _, _) = self.nu(&Float::with_val(bits, t).exp(), bits)?;
+                Ok((nu.to_f64(), slope.to_f64()))
+            }
+        }
     }
 
     /// Leading-order guess of log a where ν = k: `(12 − b)(log a)²/(8π²) ≈ k − 1/5`.

@@ -60,8 +60,12 @@ pub enum PeriodsError {
         outside: usize,
     },
     /// The β loop did not close on the cover.
-    #[error("the β loop did not return to its starting sheet")]
+    #[error("the β loop did not return to its starting sheet (at very high levels, e.g. P2 beyond level 40, two branch points near log a come closer than the loop's double-precision layout resolves)")]
     BetaNotClosed,
+    /// Two branch points are closer than the double-precision layout of the β loop resolves
+    /// (a conjugate pair at log a ± iε, ε ≈ 2a^{−3/2} for P2: the limit is near level 40).
+    #[error("branch points near z = {near:.6} are {separation:.1e} apart, below what the double-precision layout of the beta loop resolves (about 5e-14 relative); this modulus is beyond regwave's current range")]
+    BranchPointsTooClose { near: f64, separation: f64 },
 }
 
 /// Ω and R of one cycle, with the error estimate of the computation.
@@ -232,8 +236,10 @@ pub fn beta_loop<T: CNum>(
             outside: outside.len(),
         });
     }
-    // Nearest to the circle; ties (conjugate pairs) prefer the upper point.
-    let tie = 1e-9;
+    // Nearest to the circle; ties (conjugate pairs) prefer the upper point. The tolerances are
+    // relative to rounding, not absolute: at high levels a conjugate pair can be closer than any
+    // fixed tolerance (P2: log a ± 2i a^{−3/2}, 1e-9 apart at level 25).
+    let tie = 1e-13 * branch.iter().map(|b| b[0].abs()).fold(1.0, f64::max);
     let b_in = *inside
         .iter()
         .max_by(|p, q| {
@@ -274,8 +280,9 @@ pub fn beta_loop<T: CNum>(
         for j in -3..=3 {
             let q = [p[0], p[1] + j as f64 * two_pi];
             let d = segment_distance(q, b_in, b_out);
-            let is_end =
-                |e: [f64; 2]| ((q[0] - e[0]).powi(2) + (q[1] - e[1]).powi(2)).sqrt() < 1e-9;
+            let is_end = |e: [f64; 2]| {
+                ((q[0] - e[0]).powi(2) + (q[1] - e[1]).powi(2)).sqrt() < 1e-14 * (1.0 + e[0].abs())
+            };
             match s.kind {
                 SingularKind::Branch if !is_end(b_in) && !is_end(b_out) => {
                     clearance_branch = clearance_branch.min(d)
@@ -286,6 +293,13 @@ pub fn beta_loop<T: CNum>(
         }
     }
     let length = ((b_out[0] - b_in[0]).powi(2) + (b_out[1] - b_in[1]).powi(2)).sqrt();
+    let scale = 1.0 + b_in[0].abs().max(b_out[0].abs());
+    if clearance_branch < 5e-14 * scale {
+        return Err(PeriodsError::BranchPointsTooClose {
+            near: b_out[0],
+            separation: clearance_branch,
+        });
+    }
     let mut delta = (0.4 * clearance_branch).min(0.25 * length).min(1.0);
     let encloses_puncture = puncture_distance < 0.5 * delta;
     if !encloses_puncture {
