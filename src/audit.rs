@@ -111,6 +111,8 @@ pub struct LevelAudit {
     /// ∫|ψ|² of the written values on the output grid (Simpson): the mass inside the grid.
     pub norm_on_grid: f64,
     pub zeros: Zeros,
+    /// Zeros beyond the turning points on the output grid, with their spacing law.
+    pub tail_zeros: [verify::TailZeros; 2],
     /// max|ψ − ψ_HO| / max|ψ| after normalization and phase alignment.
     pub eigenvector_difference: f64,
     pub route_dependence: f64,
@@ -366,6 +368,16 @@ fn level_audit(
     let agreement_digits = crate::precision::agreement_digits(rel, cap.max(0.0));
     let norm = verify::norm_coarse(&profile.normalization);
     let norm_on_grid = verify::norm_on_grid(&profile.grid, &profile.main);
+    let gaps = crate::cover::Curve::new(laurent, Complex64::new(profile.modulus.to_f64(), 0.0))
+        .map_err(EigenError::from)?
+        .end_exponent_gaps();
+    let tail_zeros = verify::tail_zeros(
+        &profile.grid,
+        &profile.main,
+        profile.rule,
+        d.zeros.window,
+        gaps,
+    );
     Ok(LevelAudit {
         level,
         nu,
@@ -378,6 +390,7 @@ fn level_audit(
         norm,
         norm_on_grid,
         zeros: d.zeros,
+        tail_zeros,
         eigenvector_difference: d.eigenvector_difference,
         route_dependence: d.route_dependence,
         cauchy_defect: d.cauchy_defect,

@@ -634,6 +634,20 @@ impl<T: CNum> Curve<T> {
     /// (e₋₁, −1), [`EndRoots::Merging`] when it lies on it (an edge of lattice length 2 whose
     /// binomial polynomial (1 + w)² has a double root) and [`EndRoots::Branched`] when inside.
     pub fn end_roots(&self) -> [EndRoots; 2] {
+        self.end_exponent_gaps().map(|g| match g.cmp(&0) {
+            std::cmp::Ordering::Greater => EndRoots::Separate,
+            std::cmp::Ordering::Equal => EndRoots::Merging,
+            std::cmp::Ordering::Less => EndRoots::Branched,
+        })
+    }
+
+    /// `2e₀ − e₁ − e₋₁` at the two ends `[x → 0, x → ∞]` (see [`Curve::end_roots`]): at a
+    /// separate end (> 0) it is the difference Δm of the exponents of the two roots,
+    /// y₁ ~ x^{±(e₀ − e₁)} and y₂ ~ x^{±(e₋₁ − e₀)}, which sets the oscillation of ψ in that tail:
+    /// the exponents of χ on the two sheets differ by ≈ Δm r²/(4π), so successive zeros are
+    /// ≈ 4π²/(Δm |r|) apart (F0: Δm = 2, the 2π²/|r| of MATH.md §2; measured for all 15
+    /// families, `verify::tail_zeros`).
+    pub fn end_exponent_gaps(&self) -> [i64; 2] {
         let extreme = |u: &Univariate, side: i64| {
             u.terms
                 .iter()
@@ -644,11 +658,7 @@ impl<T: CNum> Curve<T> {
         [-1, 1].map(|side| {
             let (e1, em1) = (extreme(&self.parts.a, side), extreme(&self.parts.c, side));
             let e0 = extreme(&self.parts.b, side).max(0);
-            match (2 * e0).cmp(&(e1 + em1)) {
-                std::cmp::Ordering::Greater => EndRoots::Separate,
-                std::cmp::Ordering::Equal => EndRoots::Merging,
-                std::cmp::Ordering::Less => EndRoots::Branched,
-            }
+            2 * e0 - e1 - em1
         })
     }
 

@@ -455,6 +455,7 @@ pub fn level_json(l: &crate::audit::LevelAudit) -> Value {
         "norm_tail_fraction": p.normalization.tail,
         "zeros_inside": l.zeros.count,
         "zeros": l.zeros,
+        "tail_zeros": l.tail_zeros,
         "decay_rate": {"left": p.normalization.decay[0], "right": p.normalization.decay[1]},
         "eigenvector_difference": l.eigenvector_difference,
         "route_dependence": l.route_dependence,
@@ -529,6 +530,40 @@ fn level_row(l: &crate::audit::LevelAudit) -> String {
     )
 }
 
+/// One end's tail zeros as "count, measured spacing constant / predicted".
+fn tail_text(t: &crate::verify::TailZeros) -> String {
+    let measured = t
+        .spacing_constant
+        .map(|c| format!("{c:.2}"))
+        .unwrap_or_else(|| "–".into());
+    let predicted = t
+        .predicted
+        .map(|c| format!("{c:.2}"))
+        .unwrap_or_else(|| "none (roots meet at this end)".into());
+    format!(
+        "{} zeros, s·|r|/π² = {measured} (predicted {predicted})",
+        t.count
+    )
+}
+
+/// The report line on the zeros beyond the turning points.
+fn tail_line(levels: &[crate::audit::LevelAudit]) -> String {
+    let mut out = String::from(
+        "- Beyond the outermost turning points ψ keeps oscillating while it decays, with zeros spaced \
+         s ≈ 4π²/(Δm |r|) (Δm the gap of the root exponents at that end: 2 for F0, i.e. 2π²/|r|); on the grid, r → −∞ / r → +∞:",
+    );
+    for l in levels {
+        out.push_str(&format!(
+            " n = {}: {}; {}.",
+            l.level,
+            tail_text(&l.tail_zeros[0]),
+            tail_text(&l.tail_zeros[1])
+        ));
+    }
+    out.push('\n');
+    out
+}
+
 /// What the columns of the per-level table mean (Markdown, once per report).
 pub const COLUMNS_NOTE: &str = "Columns: residual = max |A ψ(r−2πi) + C ψ(r+2πi) − (B+a) ψ(r)| / max|ψ| on the grid, the shifted values \
 integrated along their own routes; ‖ψ‖² − 1 = the norm by a second, independent quadrature; zeros between the outermost real parts of \
@@ -584,6 +619,7 @@ pub fn audit_markdown(
             format!("**{} unmatched** (listed below)", a.unmatched.len())
         }
     ));
+    out.push_str(&tail_line(&a.levels));
     out.push_str(&format!(
         "- ν(a) increases on all {} scan points: {}.{}\n",
         a.scan.log_a.len(),
@@ -693,6 +729,11 @@ pub fn check_text(family: &str, c: &crate::audit::Check, elapsed_s: f64) -> Stri
     out.push_str(&format!(
         "  zeros inside the turning points        {} ({:?}, window [{:.3}, {:.3}])\n",
         l.zeros.count, l.zeros.method, l.zeros.window[0], l.zeros.window[1]
+    ));
+    out.push_str(&format!(
+        "  zeros beyond (left; right)             {}; {}\n",
+        tail_text(&l.tail_zeros[0]),
+        tail_text(&l.tail_zeros[1])
     ));
     out.push_str(&format!(
         "  difference from the oscillator ψ       {}\n",

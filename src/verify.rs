@@ -467,3 +467,68 @@ pub fn nu_scan(laurent: &Laurent, a_max: f64, points: usize) -> Result<NuScan, V
         skipped,
     })
 }
+
+/// The zeros of ψ beyond the outermost turning points at one end, where ψ keeps oscillating
+/// while it decays.
+#[derive(Debug, Clone, PartialEq, serde::Serialize)]
+pub struct TailZeros {
+    /// −1: r → −∞, +1: r → +∞.
+    pub side: i64,
+    /// Zeros on the grid beyond the window.
+    pub count: usize,
+    /// Median of s·|r|/π² over successive zeros (s their spacing, r their midpoint); None with
+    /// fewer than two spacings.
+    pub spacing_constant: Option<f64>,
+    /// The predicted constant 4/Δm, Δm the exponent gap of the two roots at that end
+    /// ([`crate::cover::Curve::end_exponent_gaps`]); None where the roots meet at the end (no
+    /// oscillation: |ψ| decays like e^{−|r|/2} or with a power of |r|).
+    pub predicted: Option<f64>,
+}
+
+/// Zeros of the written ψ beyond `window` on `grid` at both ends (sign changes with a reality
+/// rule, phase slips without), with the spacing law `s ≈ 4π²/(Δm |r|)` measured against its
+/// prediction from the exponent gaps `gaps` = [x → 0, x → ∞].
+pub fn tail_zeros(
+    grid: &[f64],
+    values: &[Option<Complex64>],
+    rule: Option<i64>,
+    window: [f64; 2],
+    gaps: [i64; 2],
+) -> [TailZeros; 2] {
+    let pairs: Vec<(f64, Complex64)> = grid
+        .iter()
+        .zip(values)
+        .filter_map(|(&r, v)| v.filter(|v| v.is_finite()).map(|v| (r, v)))
+        .map(|(r, v)| {
+            (
+                r,
+                rule.map(|k| v * eigenfn::reality_factor(k, r)).unwrap_or(v),
+            )
+        })
+        .collect();
+    let r: Vec<f64> = pairs.iter().map(|p| p.0).collect();
+    let v: Vec<Complex64> = pairs.iter().map(|p| p.1).collect();
+    let zeros = match rule {
+        Some(_) => sign_changes(&r, &v),
+        None => phase_slips(&r, &v),
+    };
+    [(-1i64, window[0], gaps[0]), (1, window[1], gaps[1])].map(|(side, edge, gap)| {
+        let mut beyond: Vec<f64> = zeros
+            .iter()
+            .copied()
+            .filter(|&z| (z - edge) * side as f64 > 0.0)
+            .collect();
+        beyond.sort_by(f64::total_cmp);
+        let mut constants: Vec<f64> = beyond
+            .windows(2)
+            .map(|w| (w[1] - w[0]) * (0.5 * (w[0] + w[1])).abs() / std::f64::consts::PI.powi(2))
+            .collect();
+        constants.sort_by(f64::total_cmp);
+        TailZeros {
+            side,
+            count: beyond.len(),
+            spacing_constant: (!constants.is_empty()).then(|| constants[constants.len() / 2]),
+            predicted: (gap > 0).then(|| 4.0 / gap as f64),
+        }
+    })
+}
