@@ -123,16 +123,26 @@ struct AttractorsArgs {
     json: bool,
 }
 
+/// Which eigenfunction: `--level n` or `--modulus A`.
 #[derive(Args, Clone)]
-struct BuildArgs {
-    #[command(flatten)]
-    family: FamilyArgs,
+struct TargetArgs {
     /// Level n (the attractor modulus with nu = n + 1).
     #[arg(long, conflicts_with = "modulus")]
     level: Option<usize>,
     /// An explicit modulus a (must be an attractor modulus unless --allow-non-attractor).
     #[arg(long, allow_hyphen_values = true)]
     modulus: Option<String>,
+    /// Accept a modulus that is not an attractor modulus (the result is then not an eigenfunction; the checks show it).
+    #[arg(long)]
+    allow_non_attractor: bool,
+}
+
+#[derive(Args, Clone)]
+struct BuildArgs {
+    #[command(flatten)]
+    family: FamilyArgs,
+    #[command(flatten)]
+    target: TargetArgs,
     /// Grid of real parts R0:R1:N.
     #[arg(long, default_value = "-12:12:481", allow_hyphen_values = true)]
     grid: String,
@@ -148,9 +158,6 @@ struct BuildArgs {
     /// Replace existing outputs.
     #[arg(long)]
     force: bool,
-    /// Build even if the modulus is not an attractor modulus (the result is then not an eigenfunction).
-    #[arg(long)]
-    allow_non_attractor: bool,
 }
 
 #[derive(Args, Clone)]
@@ -184,21 +191,14 @@ struct AuditArgs {
 struct CheckArgs {
     #[command(flatten)]
     family: FamilyArgs,
-    /// Level n (the attractor modulus with nu = n + 1).
-    #[arg(long, conflicts_with = "modulus")]
-    level: Option<usize>,
-    /// An explicit modulus a (must be an attractor modulus unless --allow-non-attractor).
-    #[arg(long, allow_hyphen_values = true)]
-    modulus: Option<String>,
+    #[command(flatten)]
+    target: TargetArgs,
     /// Grid of real parts R0:R1:N.
     #[arg(long, default_value = "-12:12:241", allow_hyphen_values = true)]
     grid: String,
     /// Decimal digits (16 or less: double precision where it suffices).
     #[arg(long, default_value_t = 16)]
     digits: u32,
-    /// Check even if the modulus is not an attractor modulus (the checks then show it).
-    #[arg(long)]
-    allow_non_attractor: bool,
     /// Print one JSON document instead of the table.
     #[arg(long)]
     json: bool,
@@ -478,7 +478,7 @@ fn build_command(args: &BuildArgs) -> Result<(), Failure> {
     check_digits(args.digits)?;
     let sel = select(&args.family)?;
     let grid = eigenfn::Grid::parse(&args.grid).map_err(Failure::input)?;
-    let target = target_of(args.level, &args.modulus)?;
+    let target = target_of(args.target.level, &args.target.modulus)?;
     // Refuse to overwrite unless --force, before computing anything expensive.
     let files: Vec<&str> = if args.strip {
         vec!["psi.csv", "psi_up.csv", "psi_down.csv", "psi.json"]
@@ -490,7 +490,7 @@ fn build_command(args: &BuildArgs) -> Result<(), Failure> {
         grid: grid.values(),
         strip: args.strip,
         digits: args.digits,
-        allow_non_attractor: args.allow_non_attractor,
+        allow_non_attractor: args.target.allow_non_attractor,
     };
     let bar = progress_bar(2, args.digits <= 16, &format!("build {}", sel.family.id));
     let tick = |what: &str| {
@@ -501,8 +501,8 @@ fn build_command(args: &BuildArgs) -> Result<(), Failure> {
     bar.finish_and_clear();
     let elapsed = start.elapsed().as_secs_f64();
     let mut inputs = family_inputs(&args.family, &sel);
-    inputs["level"] = json!(args.level);
-    inputs["modulus"] = json!(args.modulus);
+    inputs["level"] = json!(args.target.level);
+    inputs["modulus"] = json!(args.target.modulus);
     inputs["grid"] = json!(args.grid);
     inputs["strip"] = json!(args.strip);
     inputs["digits"] = json!(args.digits);
@@ -732,18 +732,18 @@ fn check_command(args: &CheckArgs) -> Result<(), Failure> {
     check_digits(args.digits)?;
     let sel = select(&args.family)?;
     let grid = eigenfn::Grid::parse(&args.grid).map_err(Failure::input)?;
-    let target = target_of(args.level, &args.modulus)?;
+    let target = target_of(args.target.level, &args.target.modulus)?;
     let options = CheckOptions {
         grid: grid.values(),
         digits: args.digits,
-        allow_non_attractor: args.allow_non_attractor,
+        allow_non_attractor: args.target.allow_non_attractor,
         perturbation: 1e-6,
     };
     let c = audit::check(&sel.laurent, &target, &options)?;
     let elapsed = start.elapsed().as_secs_f64();
     let mut inputs = family_inputs(&args.family, &sel);
-    inputs["level"] = json!(args.level);
-    inputs["modulus"] = json!(args.modulus);
+    inputs["level"] = json!(args.target.level);
+    inputs["modulus"] = json!(args.target.modulus);
     inputs["grid"] = json!(args.grid);
     inputs["digits"] = json!(args.digits);
     let doc = report::check_json(sel.family.id, &c, inputs, elapsed);

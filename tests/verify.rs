@@ -19,6 +19,18 @@ fn modulus(id: &str, level: usize) -> f64 {
         .to_f64()
 }
 
+/// The independent spectrum, levels 0..=top, at `basis` and its 3N/2 check.
+fn spectrum_of(l: &Laurent, top: usize, basis: usize) -> spectrum::Spectrum {
+    let options = SpectrumOptions {
+        levels: 0..=top,
+        basis,
+        max_basis: spectrum::next_basis(basis),
+        digits: 16,
+        squeeze: 1.0,
+    };
+    spectrum::solve(l, &options).unwrap()
+}
+
 fn eig(id: &str, a: f64) -> Eigenfunction<Complex64> {
     Eigenfunction::new(&family(id), Complex64::new(a, 0.0), 15.0, None, 0.3).unwrap()
 }
@@ -50,18 +62,7 @@ fn eigenvector_agreement_and_its_failure_off_the_attractor() {
     // ψ against the independent harmonic-oscillator eigenvector (≤ 1e-9, issue requirement) and
     // the same comparison for a function built at a modulus 1e-3 off (relative): not an
     // eigenfunction, so it differs visibly.
-    let l = family("P2");
-    let spec = spectrum::solve(
-        &l,
-        &SpectrumOptions {
-            levels: 0..=2,
-            basis: 300,
-            max_basis: 450,
-            digits: 16,
-            squeeze: 1.0,
-        },
-    )
-    .unwrap();
+    let spec = spectrum_of(&family("P2"), 2, 300);
     let a = modulus("P2", 1);
     let good = verify::eigenvector_difference(&eig("P2", a), &spec, 1).unwrap();
     let bad = verify::eigenvector_difference(&eig("P2", a * (1.0 + 1e-3)), &spec, 1).unwrap();
@@ -193,17 +194,7 @@ fn matching_both_ways_flags_what_does_not_match() {
     // is unmatched in both directions; a swapped label is reported as such.
     let l = family("F0");
     let at = regwave::attractor::solve_levels(&l, 0..=2, 20).unwrap();
-    let spec = spectrum::solve(
-        &l,
-        &SpectrumOptions {
-            levels: 0..=3,
-            basis: 200,
-            max_basis: 300,
-            digits: 16,
-            squeeze: 1.0,
-        },
-    )
-    .unwrap();
+    let spec = spectrum_of(&l, 3, 200);
     let moduli: Vec<(f64, i64)> = at.iter().map(|a| (a.modulus.to_f64(), a.nu)).collect();
     let eigen: Vec<(f64, f64)> = spec
         .levels
