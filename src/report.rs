@@ -663,6 +663,7 @@ pub fn audit_markdown(
             u.note
         ));
     }
+    out.push('\n');
     out
 }
 
