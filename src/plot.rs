@@ -1398,7 +1398,13 @@ fn draw_caps<'a, 'b: 'a>(
     bars: &[AgreementBars],
 ) -> Result<(), PlotError> {
     for cap in distinct_caps(bars) {
-        let label = format!("cap {} digits", tick_label(&cap));
+        // One decimal at most: the cap is a digit count, not a measured value to quote finely.
+        let shown = if (cap - cap.round()).abs() < 0.05 {
+            format!("{:.0}", cap.round())
+        } else {
+            format!("{cap:.1}")
+        };
+        let label = format!("cap {shown} digits");
         draw_reference_level(chart, cap, &label)?;
     }
     Ok(())
