@@ -1,13 +1,14 @@
 //! Where the eigen-equation residual of a profile is largest (development aid):
 //! `cargo run --release --example residual_profile -- T6 2 16`.
+mod common;
+
 use regwave::profile::{self, ProfileOptions, Target};
 fn main() {
-    let mut args = std::env::args().skip(1);
-    let id = args.next().unwrap_or_else(|| "T6".into());
-    let level: usize = args.next().and_then(|s| s.parse().ok()).unwrap_or(2);
-    let digits: u32 = args.next().and_then(|s| s.parse().ok()).unwrap_or(16);
-    let l =
-        regwave::laurent::Laurent::tempered(&regwave::catalogue::by_id(&id).expect("id").polygon());
+    let (id, l, level) = common::family_and_level("T6", 2);
+    let digits: u32 = std::env::args()
+        .nth(3)
+        .and_then(|s| s.parse().ok())
+        .unwrap_or(16);
     let grid: Vec<f64> = (0..241).map(|k| -12.0 + 0.1 * k as f64).collect();
     let p = profile::build(
         &l,

@@ -61,7 +61,7 @@ pub enum AttractorError {
 }
 
 /// One attractor modulus.
-#[derive(Debug, Clone)]
+#[derive(Debug, Clone, PartialEq)]
 pub struct Attractor {
     pub level: usize,
     /// The integer value of ν.

@@ -95,9 +95,6 @@ pub struct LevelAudit {
     pub level: usize,
     /// The integer value of ν at the modulus.
     pub nu: i64,
-    /// The attractor modulus and its confirmed digits.
-    pub modulus: Float,
-    pub modulus_digits: u32,
     /// The independent eigenvalue of the same level and its error estimate.
     pub spectrum_value: Float,
     pub spectrum_error: f64,
@@ -277,6 +274,8 @@ struct Diagnostics {
     eigenvector_difference: f64,
     route_dependence: f64,
     cauchy_defect: f64,
+    /// The exponent gaps of the roots at the two ends (for the tail zeros).
+    end_gaps: [i64; 2],
 }
 
 fn diagnostics<T: CNum>(
@@ -291,12 +290,13 @@ fn diagnostics<T: CNum>(
     } else {
         digits_for_bits(a.prec()) as f64
     };
-    let eig = Eigenfunction::new(laurent, a.clone(), digits, None, BASE_RE)?;
+    let eig = Eigenfunction::new(laurent, a, digits, None, BASE_RE)?;
     Ok(Diagnostics {
         zeros: verify::zeros_inside(&eig, rule)?,
         eigenvector_difference: verify::eigenvector_difference(&eig, spec, level)?,
-        route_dependence: verify::route_dependence(laurent, &a, digits)?,
+        route_dependence: verify::route_dependence(laurent, &eig)?,
         cauchy_defect: verify::cauchy_defect(&eig)?,
+        end_gaps: eig.curve().end_exponent_gaps(),
     })
 }
 
@@ -334,55 +334,41 @@ fn audit_level(
         digits: options.digits,
         allow_non_attractor: false,
     };
-    level_audit(
-        laurent,
-        &Target::Level(at.level),
-        &profile_options,
-        spec,
-        (at.level, at.nu, at.digits),
-    )
+    let profile = profile::build(laurent, &Target::Attractor(at.clone()), &profile_options)?;
+    level_audit(laurent, profile, spec, at.level)
 }
 
-/// The level audit of a target against level `label.0` of the spectrum; `label` = (level, ν,
-/// confirmed digits of the modulus).
+/// The level audit of a profile against level `level` of the spectrum.
 fn level_audit(
     laurent: &Laurent,
-    target: &Target,
-    options: &ProfileOptions,
+    profile: Profile,
     spec: &spectrum::Spectrum,
-    label: (usize, i64, u32),
+    level: usize,
 ) -> Result<LevelAudit, AuditError> {
-    let (level, nu, modulus_digits) = label;
-    let profile = profile::build(laurent, target, options)?;
     let bits = diagnostic_bits(&profile);
     let d = diagnostics_at(laurent, &profile.modulus, bits, profile.rule, spec, level)?;
     let sl = &spec.levels[level];
-    let modulus = profile.modulus.clone();
-    let rel = Float::with_val(modulus.prec(), &modulus - &sl.value)
+    let modulus = &profile.modulus;
+    let rel = Float::with_val(modulus.prec(), modulus - &sl.value)
         .to_f64()
         .abs()
         / sl.value.to_f64();
     let cap = (sl.value.to_f64() / sl.error_estimate.max(1e-300))
         .log10()
-        .min(modulus_digits as f64);
+        .min(profile.modulus_digits as f64);
     let agreement_digits = crate::precision::agreement_digits(rel, cap.max(0.0));
     let norm = verify::norm_coarse(&profile.normalization);
     let norm_on_grid = verify::norm_on_grid(&profile.grid, &profile.main);
-    let gaps = crate::cover::Curve::new(laurent, Complex64::new(profile.modulus.to_f64(), 0.0))
-        .map_err(EigenError::from)?
-        .end_exponent_gaps();
     let tail_zeros = verify::tail_zeros(
         &profile.grid,
         &profile.main,
         profile.rule,
         d.zeros.window,
-        gaps,
+        d.end_gaps,
     );
     Ok(LevelAudit {
         level,
-        nu,
-        modulus,
-        modulus_digits,
+        nu: profile.nu.round() as i64,
         spectrum_value: sl.value.clone(),
         spectrum_error: sl.error_estimate,
         agreement_digits,
@@ -435,22 +421,12 @@ pub fn check(
         digits: options.digits,
         allow_non_attractor: options.allow_non_attractor,
     };
-    let (level, nu, modulus_digits) = match target {
-        Target::Level(n) => {
-            let at = attractor::solve_levels(laurent, *n..=*n, options.digits.max(20))?;
-            (*n, at[0].nu, at[0].digits)
-        }
-        Target::Modulus(text) => {
-            let digits = text.chars().filter(|c| c.is_ascii_digit()).count() as u32;
-            let bits = with_guard(bits_for_digits(options.digits.max(20) as f64));
-            let a =
-                crate::selection::parse_modulus(text, bits, laurent).map_err(ProfileError::from)?;
-            let mut fam = attractor::Family::new(laurent)?;
-            let (nu, _, _, _) = fam.nu(&a, bits)?;
-            let k = nu.to_f64().round().max(LEVEL_OFFSET as f64) as i64;
-            ((k - LEVEL_OFFSET) as usize, k, digits)
-        }
-    };
+    let profile = profile::build(laurent, target, &profile_options)?;
+    // The level to compare with: the attractor's, or for a modulus off the attractor values the
+    // nearest one.
+    let level = profile.level.unwrap_or_else(|| {
+        (profile.nu.round().max(LEVEL_OFFSET as f64) as i64 - LEVEL_OFFSET) as usize
+    });
     let spec = spectrum::solve(
         laurent,
         &SpectrumOptions {
@@ -461,19 +437,13 @@ pub fn check(
             squeeze: 1.0,
         },
     )?;
-    let audited = level_audit(
-        laurent,
-        target,
-        &profile_options,
-        &spec,
-        (level, nu, modulus_digits),
-    )?;
+    let audited = level_audit(laurent, profile, &spec, level)?;
     let negative_control = negative_control(laurent, &audited, options.perturbation)?;
     let bits = with_guard(bits_for_digits(options.digits.max(20) as f64));
     let terms = laurent.constant_terms(2000)?;
     let period_agreement_digits = periods::compare(
         laurent,
-        &rug::Complex::with_val(bits, (&audited.modulus, 0)),
+        &rug::Complex::with_val(bits, (&audited.profile.modulus, 0)),
         &terms,
     )?
     .agreement_digits;
@@ -493,12 +463,12 @@ fn negative_control(
     level: &LevelAudit,
     perturbation: f64,
 ) -> Result<NegativeControl, AuditError> {
-    let a = level.modulus.to_f64() * (1.0 + perturbation);
+    let a = level.profile.modulus.to_f64() * (1.0 + perturbation);
     let eig = Eigenfunction::new(laurent, Complex64::new(a, 0.0), 15.0, None, BASE_RE)?;
     Ok(NegativeControl {
         perturbation,
         modulus: a,
-        route_dependence: verify::route_dependence(laurent, &Complex64::new(a, 0.0), 15.0)?,
+        route_dependence: verify::route_dependence(laurent, &eig)?,
         cauchy_defect: verify::cauchy_defect(&eig)?,
         route_dependence_at_attractor: level.route_dependence,
         cauchy_defect_at_attractor: level.cauchy_defect,

@@ -131,7 +131,7 @@ pub struct PathIntegrals<T> {
     pub omega_daa: T,
     /// `∫ dz` (end minus start).
     pub dz: T,
-    /// `∫ z d log(C/A)`: with it the exponent of the other sheet needs no continuation of its
+    /// `∫ z d log(C/A)` (zero unless [`March::twist`]): with it the exponent of the other sheet needs no continuation of its
     /// own — on ιy = C/(A y), D changes sign, so `∫ (z d log(ιy) − λ dz/D_ι) = twist −
     /// ∫ (z d log y − λ dz/D)` (an identity of integrands, node by node).
     pub twist: T,
@@ -918,6 +918,9 @@ pub struct March {
     pub max_step: f64,
     /// Smallest distance to a singular point a path may come.
     pub min_distance: f64,
+    /// Also integrate `∫ z d log(C/A)` ([`PathIntegrals::twist`]); only the eigenfunction needs
+    /// it, the periods do not (it costs two divisions per node).
+    pub twist: bool,
 }
 
 impl March {
@@ -929,6 +932,7 @@ impl March {
             step_factor: STEP_FACTOR,
             max_step: MAX_STEP,
             min_distance: 1e-30,
+            twist: false,
         }
     }
 }
@@ -1049,10 +1053,12 @@ pub fn continue_sheet<T: CNum>(
                 sum_daa = sum_daa + w.clone() * g2;
                 sum_omega = sum_omega + w.clone() * inv_d;
                 sum_eta = sum_eta + w.clone() * eta;
-                // d log(C/A)/dz = (x C')/C − (x A')/A: the Euler derivatives (dx/x = dz).
-                let twist =
-                    z.clone() * (fib.dc.clone() / fib.c.clone() - fib.da.clone() / fib.a.clone());
-                sum_twist = sum_twist + w.clone() * twist;
+                if march.twist {
+                    // d log(C/A)/dz = (x C')/C − (x A')/A: the Euler derivatives (dx/x = dz).
+                    let twist = z.clone()
+                        * (fib.dc.clone() / fib.c.clone() - fib.da.clone() / fib.a.clone());
+                    sum_twist = sum_twist + w.clone() * twist;
+                }
                 z_prev = z;
             }
             let end_fiber = curve.fiber(&end);

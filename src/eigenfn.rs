@@ -110,7 +110,10 @@ impl<T: CNum> Eigenfunction<T> {
         let curve = Curve::new(laurent, a)?;
         let singular = curve.singular_points()?;
         let pole_orders = curve.puncture_orders()?;
-        let march = March::for_digits(digits);
+        let march = March {
+            twist: true,
+            ..March::for_digits(digits)
+        };
         let alpha = periods::alpha_path(&curve, &singular, &march)?;
         let lambda = alpha.regulator.clone() / alpha.omega.clone();
         let c = spine.unwrap_or_else(|| default_spine(&singular));
@@ -138,6 +141,21 @@ impl<T: CNum> Eigenfunction<T> {
     /// The curve.
     pub fn curve(&self) -> &Curve<T> {
         &self.curve
+    }
+
+    /// The singular points of the cover (representatives with Im z ∈ (−π, π]), computed once at
+    /// construction.
+    pub fn singular_points(&self) -> &[Singular<T>] {
+        &self.singular
+    }
+
+    /// Real and imaginary parts of the branch points among [`Eigenfunction::singular_points`].
+    pub fn branch_points(&self) -> Vec<[f64; 2]> {
+        self.singular
+            .iter()
+            .filter(|s| s.kind == SingularKind::Branch)
+            .map(|s| [s.z.re_f64(), s.z.im_f64()])
+            .collect()
     }
 
     /// The exponent integral `∫ (z d log y − λ ω)` of a path piece.

@@ -34,7 +34,7 @@
 //! MATH.md §5–7.
 
 use crate::attractor::{self, AttractorError};
-use crate::cover::{self, CoverError, Curve, March};
+use crate::cover::{CoverError, Curve, March};
 use crate::eigenfn::{self, EigenError, Eigenfunction, Normalization, Pole};
 use crate::laurent::{Laurent, LaurentError};
 use crate::numeric::CNum;
@@ -96,6 +96,8 @@ impl ProfileError {
 pub enum Target {
     /// The attractor modulus of level n (ν = n + 1).
     Level(usize),
+    /// An attractor modulus already solved (re-solved only if more precision is needed).
+    Attractor(attractor::Attractor),
     /// A modulus given as decimal text (read at the working precision).
     Modulus(String),
 }
@@ -132,6 +134,9 @@ pub struct Profile {
     pub level: Option<usize>,
     /// The modulus at the final working precision.
     pub modulus: Float,
+    /// Its confirmed digits: those of the attractor solve (a second solve at higher precision
+    /// agrees on them), or the digits of a given modulus as typed.
+    pub modulus_digits: u32,
     /// ν at the modulus and its distance to the nearest integer.
     pub nu: f64,
     pub nu_distance: f64,
@@ -172,6 +177,8 @@ struct Resolved {
     level: Option<usize>,
     nu: f64,
     distance: f64,
+    /// Confirmed digits of the modulus (see [`Profile::modulus_digits`]).
+    digits: u32,
 }
 
 /// Builds the profile of the eigenfunction `target` of φ.
@@ -243,16 +250,18 @@ fn resolve(
 ) -> Result<Resolved, ProfileError> {
     let digits = options.digits.max(20);
     let bits = with_guard(bits_for_digits(digits as f64));
+    let solved = |at: &attractor::Attractor| Resolved {
+        modulus: at.modulus.clone(),
+        level: Some(at.level),
+        nu: at.nu as f64,
+        distance: at.residual,
+        digits: at.digits,
+    };
     match target {
-        Target::Level(n) => {
-            let at = attractor::solve_levels(laurent, *n..=*n, digits)?;
-            Ok(Resolved {
-                modulus: at[0].modulus.clone(),
-                level: Some(*n),
-                nu: at[0].nu as f64,
-                distance: at[0].residual,
-            })
-        }
+        Target::Level(n) => Ok(solved(
+            &attractor::solve_levels(laurent, *n..=*n, digits)?[0],
+        )),
+        Target::Attractor(at) => Ok(solved(at)),
         Target::Modulus(text) => {
             let a = selection::parse_modulus(text, bits, laurent)?;
             let mut fam = attractor::Family::new(laurent)?;
@@ -275,6 +284,7 @@ fn resolve(
                 level,
                 nu,
                 distance,
+                digits: text.chars().filter(|c| c.is_ascii_digit()).count() as u32,
             })
         }
     }
@@ -299,13 +309,14 @@ fn modulus_at(
     if bits <= resolved.modulus.prec() {
         return Ok(Float::with_val(bits, &resolved.modulus));
     }
-    match target {
-        Target::Level(n) => {
+    match (target, resolved.level) {
+        (Target::Modulus(text), _) => Ok(selection::parse_modulus(text, bits, laurent)?),
+        (_, Some(n)) => {
             let d = digits_for_bits(bits).min(MAX_DIGITS);
-            let at = attractor::solve_levels(laurent, *n..=*n, d)?;
+            let at = attractor::solve_levels(laurent, n..=n, d)?;
             Ok(Float::with_val(bits, &at[0].modulus))
         }
-        Target::Modulus(text) => Ok(selection::parse_modulus(text, bits, laurent)?),
+        (_, None) => Ok(Float::with_val(bits, &resolved.modulus)),
     }
 }
 
@@ -394,7 +405,12 @@ fn sample<T: CNum + Send + Sync>(
     let normalization = normalization(laurent, &eig, &a, digits)?;
     let raw = lines(&eig, &options.grid, options.strip)?;
     let residual = if options.strip {
-        Some(residual(laurent, &eig, &options.grid, &raw)?)
+        Some(residual(
+            &QuantumCurve::new(laurent)?,
+            &eig,
+            &options.grid,
+            &raw,
+        )?)
     } else {
         None
     };
@@ -417,16 +433,11 @@ fn sample<T: CNum + Send + Sync>(
     });
     let reality_defect = fixed.map(|f| f.0);
     let factor = normalization.factor * fixed.map(|f| f.1).unwrap_or(Complex64::new(1.0, 0.0));
-    let branch_points = eig
-        .curve()
-        .singular_points()?
-        .iter()
-        .filter(|s| s.kind == cover::SingularKind::Branch)
-        .map(|s| [s.z.re_f64(), s.z.im_f64()])
-        .collect();
+    let branch_points = eig.branch_points();
     Ok(Profile {
         level: resolved.level,
         modulus,
+        modulus_digits: resolved.digits,
         nu: resolved.nu,
         nu_distance: resolved.distance,
         lambda: eig.lambda.to_c64(),
@@ -532,12 +543,11 @@ pub fn strip_map(
 
 /// The residual from the three lines, at the working precision; products at poles as limits.
 fn residual<T: CNum>(
-    laurent: &Laurent,
+    q: &QuantumCurve,
     eig: &Eigenfunction<T>,
     grid: &[f64],
     raw: &Lines<T>,
 ) -> Result<Residual, ProfileError> {
-    let q = QuantumCurve::new(laurent)?;
     let prec = eig.lambda.prec();
     let scale = raw
         .main
@@ -559,14 +569,14 @@ fn residual<T: CNum>(
             Some(d) => c.down * d.clone(),
             None => {
                 pole_limits += 1;
-                pole_product(eig, &q, &z, -1)?
+                pole_product(eig, q, &z, -1)?
             }
         };
         let up = match &raw.up[k] {
             Some(u) => c.up * u.clone(),
             None => {
                 pole_limits += 1;
-                pole_product(eig, &q, &z, 1)?
+                pole_product(eig, q, &z, 1)?
             }
         };
         let res = down + (c.centre - a.clone()) * m.clone() + up;
@@ -621,4 +631,48 @@ fn pole_product<T: CNum>(
         acc = acc + coefficient * eig.psi(&(w + shift.clone()))?;
     }
     Ok(acc / r.int_like(m as i64))
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// The hexagon dP3: poles of ψ at ±2πi, cancelled in the eigen-equation by the zeros of A
+    /// and C at r = 0.
+    fn hexagon() -> Laurent {
+        Laurent::from_terms(vec![
+            ([1, 0], 1),
+            ([1, 1], 1),
+            ([0, 1], 1),
+            ([-1, 0], 1),
+            ([-1, -1], 1),
+            ([0, -1], 1),
+        ])
+    }
+
+    #[test]
+    fn residual_with_pole_limits_and_its_failure_for_the_wrong_operator() {
+        // On a grid through r = 0 the products A·ψ(r − 2πi), C·ψ(r + 2πi) at the poles are
+        // evaluated as limits: the residual stays at double-precision level there (MATH.md §2,
+        // checked values for the hexagon). With the wrong Weyl sign (the m₂ = ±1 terms negated)
+        // the same lines give a residual of order one (negative companion).
+        let l = hexagon();
+        let a = attractor::solve_levels(&l, 1..=1, 20).unwrap()[0]
+            .modulus
+            .to_f64();
+        let eig = Eigenfunction::new(&l, Complex64::new(a, 0.0), 15.0, None, BASE_RE).unwrap();
+        let grid: Vec<f64> = (-20..=20).map(|k| 0.1 * k as f64).collect();
+        let raw = lines(&eig, &grid, true).unwrap();
+        let right = residual(&QuantumCurve::new(&l).unwrap(), &eig, &grid, &raw).unwrap();
+        assert_eq!(right.pole_limits, 2, "both products at r = 0 are limits");
+        assert!(right.max < 1e-10, "residual {:e}", right.max);
+        let flipped: Vec<_> = l
+            .terms()
+            .iter()
+            .map(|&(m, c)| (m, if m[1] == 0 { c } else { -c }))
+            .collect();
+        let wrong = QuantumCurve::new(&Laurent::from_terms(flipped)).unwrap();
+        let bad = residual(&wrong, &eig, &grid, &raw).unwrap();
+        assert!(bad.max > 1e-2, "wrong operator residual {:e}", bad.max);
+    }
 }

@@ -441,8 +441,8 @@ pub fn level_json(l: &crate::audit::LevelAudit) -> Value {
     json!({
         "level": l.level,
         "nu": l.nu,
-        "modulus": decimal(&l.modulus, l.modulus_digits.max(1)),
-        "modulus_digits": l.modulus_digits,
+        "modulus": decimal(&l.profile.modulus, l.profile.modulus_digits.max(1)),
+        "modulus_digits": l.profile.modulus_digits,
         "spectrum_value": decimal(&l.spectrum_value, spectrum_digits),
         "spectrum_error_estimate": sci(l.spectrum_error),
         "agreement_digits": round1(l.agreement_digits),
@@ -517,7 +517,7 @@ fn level_row(l: &crate::audit::LevelAudit) -> String {
         "| {} | {} | {} | {} | {:.1} | {} | {} | {} | {:.3} / {:.3} | {} | {} |\n",
         l.level,
         l.nu,
-        decimal(&l.modulus, l.modulus_digits.max(1)),
+        decimal(&l.profile.modulus, l.profile.modulus_digits.max(1)),
         decimal(&l.spectrum_value, spectrum_digits),
         l.agreement_digits,
         residual,
@@ -692,7 +692,7 @@ pub fn check_text(family: &str, c: &crate::audit::Check, elapsed_s: f64) -> Stri
     let mut out = format!(
         "family {family}, level {}: checks of the eigenfunction at a = {} ({} bits, {:.2} s)\n\n",
         l.level,
-        decimal(&l.modulus, l.modulus_digits.max(1)),
+        decimal(&l.profile.modulus, l.profile.modulus_digits.max(1)),
         p.precision_bits,
         elapsed_s
     );

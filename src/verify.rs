@@ -17,6 +17,10 @@
 //!   closure defect `|ψ(end) − ψ(start)|/max|ψ|`; the largest over the branch points.
 //!   (MATH.md §5: the eigen-equation residual alone is not a negative control — for dP3 it stays
 //!   at 1e-23 off the attractor modulus because the shift path never changes sheet there.)
+//!   Neither figure alone is a negative control for every family: for Q5, T6, Q6 and Q7 the two
+//!   routes of the route-dependence check differ by a loop on which χ stays single valued off
+//!   the attractor too (1e-15 at a(1 + 1e-6), measured), while the Cauchy defect is ≥ 1e-5; the
+//!   audit's negative control is therefore the larger of the two.
 //! - **Eigenvector agreement**: ψ and the harmonic-oscillator ψ on r ∈ [−15, 15] (step 0.05), both
 //!   normalized by the same trapezoid rule, the phase aligned by their overlap; the largest
 //!   difference relative to max|ψ|.
@@ -76,26 +80,31 @@ pub enum VerifyError {
 /// Points of R where the two constructions are compared.
 const ROUTE_POINTS: [f64; 4] = [-1.7, -0.3, 0.9, 2.2];
 
-/// Route dependence of ψ at modulus `a` (precision of `a`): the second construction has its base
-/// point at −0.8 and its spine 0.6 higher.
+/// Route dependence of the eigenfunction `eig` (built with the default spine and base point
+/// [`crate::profile::BASE_RE`]) against a second construction of φ at the same modulus with its
+/// base point at −0.8 and its spine 0.6 higher.
 ///
 /// # Errors
 /// See [`EigenError`].
 pub fn route_dependence<T: CNum>(
     laurent: &Laurent,
-    a: &T,
-    digits: f64,
+    eig: &Eigenfunction<T>,
 ) -> Result<f64, VerifyError> {
-    let e1 = Eigenfunction::new(laurent, a.clone(), digits, None, 0.3)?;
-    let e2 = Eigenfunction::new(laurent, a.clone(), digits, Some(e1.spine + 0.6), -0.8)?;
+    let a = eig.curve().modulus().clone();
+    let digits = if a.prec() == 53 {
+        15.0
+    } else {
+        crate::precision::digits_for_bits(a.prec()) as f64
+    };
+    let other = Eigenfunction::new(laurent, a.clone(), digits, Some(eig.spine + 0.6), -0.8)?;
     let prec = a.prec();
     let at = |e: &Eigenfunction<T>, r: f64| e.psi(&T::from_f64s(r, 0.0, prec));
-    let kappa = at(&e1, 0.2)? / at(&e2, 0.2)?;
+    let kappa = at(eig, 0.2)? / at(&other, 0.2)?;
     let mut size: f64 = 0.0;
     let mut worst: f64 = 0.0;
     for r in ROUTE_POINTS {
-        let p1 = at(&e1, r)?;
-        let p2 = at(&e2, r)?;
+        let p1 = at(eig, r)?;
+        let p2 = at(&other, r)?;
         size = size.max(p1.abs_f64());
         worst = worst.max((p1 - kappa.clone() * p2).abs_f64());
     }
@@ -110,7 +119,7 @@ const CAUCHY_POINTS: usize = 64;
 /// # Errors
 /// See [`EigenError`].
 pub fn cauchy_defect<T: CNum>(eig: &Eigenfunction<T>) -> Result<f64, VerifyError> {
-    let sing = eig.curve().singular_points()?;
+    let sing = eig.singular_points();
     let prec = eig.lambda.prec();
     let mut worst: f64 = 0.0;
     for b in sing.iter().filter(|s| s.kind == SingularKind::Branch) {
@@ -218,12 +227,7 @@ pub fn zeros_inside<T: CNum>(
     eig: &Eigenfunction<T>,
     rule: Option<i64>,
 ) -> Result<Zeros, VerifyError> {
-    let sing = eig.curve().singular_points()?;
-    let res: Vec<f64> = sing
-        .iter()
-        .filter(|s| s.kind == SingularKind::Branch)
-        .map(|s| s.z.re_f64())
-        .collect();
+    let res: Vec<f64> = eig.branch_points().iter().map(|b| b[0]).collect();
     let lo = res.iter().copied().fold(f64::INFINITY, f64::min);
     let hi = res.iter().copied().fold(f64::NEG_INFINITY, f64::max);
     if !(hi > lo) {

@@ -104,9 +104,9 @@ fn f0_and_p2_at_forty_digits() {
                 l.profile.precision_bits
             );
             assert!(
-                l.modulus_digits >= 40,
+                l.profile.modulus_digits >= 40,
                 "{id}: modulus to {} digits",
-                l.modulus_digits
+                l.profile.modulus_digits
             );
         }
     }

@@ -42,15 +42,24 @@ fn single_valuedness_holds_at_every_family_attractor_and_fails_off_it() {
     for f in catalogue::all().iter().filter(|f| f.applicable) {
         let l = family(f.id);
         let a = modulus(f.id, 0);
-        let route = verify::route_dependence(&l, &Complex64::new(a, 0.0), 15.0).unwrap();
-        let cauchy = verify::cauchy_defect(&eig(f.id, a)).unwrap();
-        let off = a * (1.0 + 1e-6);
-        let route_off = verify::route_dependence(&l, &Complex64::new(off, 0.0), 15.0).unwrap();
-        let cauchy_off = verify::cauchy_defect(&eig(f.id, off)).unwrap();
+        let (at, off) = (eig(f.id, a), eig(f.id, a * (1.0 + 1e-6)));
+        let route = verify::route_dependence(&l, &at).unwrap();
+        let cauchy = verify::cauchy_defect(&at).unwrap();
+        let route_off = verify::route_dependence(&l, &off).unwrap();
+        let cauchy_off = verify::cauchy_defect(&off).unwrap();
         assert!(route < 1e-10, "{}: route dependence {route:e}", f.id);
         assert!(cauchy < 1e-10, "{}: Cauchy defect {cauchy:e}", f.id);
+        // Off the attractor: for F0, P2 and dP3 each fails by ≥ 1e-8 (issue requirement); for
+        // every family at least one does (measured: the two routes of `route_dependence` differ
+        // by a loop around which χ stays single valued for Q5, T6, Q6 and Q7, 1e-15, while their
+        // Cauchy defects are ≥ 1e-5 — so the audit's negative control is the larger of the two).
+        let both = ["F0", "P2", "dP3"].contains(&f.id);
         assert!(
-            route_off.max(cauchy_off) > 1e-8,
+            if both {
+                route_off.min(cauchy_off) > 1e-8
+            } else {
+                route_off.max(cauchy_off) > 1e-8
+            },
             "{}: off the attractor route {route_off:e}, Cauchy {cauchy_off:e}",
             f.id
         );
@@ -231,23 +240,26 @@ fn truncated_precision_breaks_the_precision_ladder() {
         400,
         rug::Float::parse(regwave::report::decimal(&full, 17)).unwrap(),
     );
-    let ratio = |a: &rug::Float, digits: u32| -> Complex {
+    let build = |a: &rug::Float, digits: u32| {
         let bits = with_guard(bits_for_digits(digits as f64));
-        let e = Eigenfunction::new(
+        Eigenfunction::new(
             &l,
             Complex::with_val(bits, (a, 0)),
             digits as f64,
             None,
             0.3,
         )
-        .unwrap();
+        .unwrap()
+    };
+    let ratio = |e: &Eigenfunction<Complex>| -> Complex {
+        let bits = e.lambda.prec().0;
         let p = e.psi(&Complex::with_val(bits, 0.3)).unwrap();
         let q = e.psi(&Complex::with_val(bits, -0.9)).unwrap();
         Complex::with_val(bits, p / q)
     };
     let rel = |x: &Complex, y: &Complex| (x.clone() - y.clone()).abs_f64() / y.abs_f64();
-    let (r40, r50) = (ratio(&full, 40), ratio(&full, 50));
-    let r_trunc = ratio(&truncated, 40);
+    let (full40, trunc40) = (build(&full, 40), build(&truncated, 40));
+    let (r40, r50, r_trunc) = (ratio(&full40), ratio(&build(&full, 50)), ratio(&trunc40));
     assert!(
         rel(&r40, &r50) < 1e-38,
         "40 vs 50 digits: {:e}",
@@ -258,11 +270,8 @@ fn truncated_precision_breaks_the_precision_ladder() {
         "truncated modulus agrees: {:e}",
         rel(&r_trunc, &r50)
     );
-    let bits = with_guard(bits_for_digits(40.0));
-    let route_full =
-        verify::route_dependence(&l, &Complex::with_val(bits, (&full, 0)), 40.0).unwrap();
-    let route_trunc =
-        verify::route_dependence(&l, &Complex::with_val(bits, (&truncated, 0)), 40.0).unwrap();
+    let route_full = verify::route_dependence(&l, &full40).unwrap();
+    let route_trunc = verify::route_dependence(&l, &trunc40).unwrap();
     assert!(route_full < 1e-35, "route dependence {route_full:e}");
     assert!(
         route_trunc > 1e-20,
