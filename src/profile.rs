@@ -637,17 +637,10 @@ fn pole_product<T: CNum>(
 mod tests {
     use super::*;
 
-    /// The hexagon dP3: poles of ψ at ±2πi, cancelled in the eigen-equation by the zeros of A
-    /// and C at r = 0.
+    /// The hexagon dP3 from the catalogue: poles of ψ at ±2πi, cancelled in the eigen-equation
+    /// by the zeros of A and C at r = 0.
     fn hexagon() -> Laurent {
-        Laurent::from_terms(vec![
-            ([1, 0], 1),
-            ([1, 1], 1),
-            ([0, 1], 1),
-            ([-1, 0], 1),
-            ([-1, -1], 1),
-            ([0, -1], 1),
-        ])
+        Laurent::tempered(&crate::catalogue::by_id("dP3").unwrap().polygon())
     }
 
     #[test]
