@@ -1,5 +1,5 @@
 //! Wall time of each audit stage (development aid): `cargo run --release --example audit_stages -- F0 4 16`.
-use regwave::audit::{self, AuditOptions};
+use regwave::checks::audit::{self, AuditOptions};
 use std::time::Instant;
 fn main() {
     let mut args = std::env::args().skip(1);
@@ -11,7 +11,7 @@ fn main() {
         .unwrap_or(0);
     let digits: u32 = args.next().and_then(|s| s.parse().ok()).unwrap_or(16);
     let l =
-        regwave::laurent::Laurent::tempered(&regwave::catalogue::by_id(&id).expect("id").polygon());
+        regwave::curve::laurent::Laurent::tempered(&regwave::lattice::catalogue::by_id(&id).expect("id").polygon());
     let start = Instant::now();
     let options = AuditOptions {
         levels: low..=top,

@@ -2,10 +2,10 @@
 //! Timings are printed, not asserted: they depend on the machine.
 
 use rayon::prelude::*;
-use regwave::attractor;
-use regwave::catalogue;
-use regwave::laurent::Laurent;
-use regwave::spectrum::{self, SpectrumOptions};
+use regwave::curve::attractor;
+use regwave::lattice::catalogue;
+use regwave::curve::laurent::Laurent;
+use regwave::operator::spectrum::{self, SpectrumOptions};
 use std::time::Instant;
 
 fn main() {
@@ -71,7 +71,7 @@ fn main() {
         let terms = laurent.constant_terms(2000).expect("terms");
         let bits = regwave::precision::with_guard(regwave::precision::bits_for_digits(50.0));
         let a = rug::Complex::with_val(bits, 200);
-        let c = regwave::periods::compare(&laurent, &a, &terms).expect("periods");
+        let c = regwave::curve::periods::compare(&laurent, &a, &terms).expect("periods");
         println!(
             "  {id:<5} a = 200: {:.3} s (series/path agreement {:.1} digits)",
             t.elapsed().as_secs_f64(),
@@ -82,7 +82,7 @@ fn main() {
     println!("target: F0 level 0, psi at 2,000 points of R in double precision with the residual check, under 0.5 s");
     {
         use num_complex::Complex64;
-        use regwave::eigenfn::Eigenfunction;
+        use regwave::eigenfunction::construction::Eigenfunction;
         let laurent = Laurent::tempered(&catalogue::by_id("F0").expect("id").polygon());
         let a = attractor::solve_levels(&laurent, 0..=0, 20).expect("attractor")[0]
             .modulus
@@ -103,7 +103,7 @@ fn main() {
                 )
             },
         );
-        let q = regwave::operator::QuantumCurve::new(&laurent).expect("operator");
+        let q = regwave::operator::quantum_curve::QuantumCurve::new(&laurent).expect("operator");
         let scale = main.iter().flatten().map(|v| v.norm()).fold(0.0, f64::max);
         let mut worst: f64 = 0.0;
         for k in 0..grid.len() {

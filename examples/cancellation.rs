@@ -3,10 +3,10 @@
 mod common;
 
 use num_complex::Complex64;
-use regwave::eigenfn::Eigenfunction;
+use regwave::eigenfunction::construction::Eigenfunction;
 fn main() {
     let (_, l, level) = common::family_and_level("F0", 1);
-    let a = regwave::attractor::solve_levels(&l, level..=level, 20).expect("a")[0]
+    let a = regwave::curve::attractor::solve_levels(&l, level..=level, 20).expect("a")[0]
         .modulus
         .to_f64();
     let eig = Eigenfunction::new(&l, Complex64::new(a, 0.0), 15.0, None, 0.3).expect("eig");

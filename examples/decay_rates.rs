@@ -2,7 +2,7 @@
 //! `Eigenfunction::normalization` (the table "Measured decay of ψ on R" in DEVELOPERS.md):
 //! `cargo run --release --example decay_rates -- 1` (level; default 1).
 use num_complex::Complex64;
-use regwave::eigenfn::Eigenfunction;
+use regwave::eigenfunction::construction::Eigenfunction;
 use std::time::Instant;
 
 fn main() {
@@ -12,9 +12,9 @@ fn main() {
         .unwrap_or(1);
     println!("level {level}, double precision, step 0.05");
     println!("family  left κ (p)        right κ (p)       range       tail      time");
-    for f in regwave::catalogue::all().iter().filter(|f| f.applicable) {
-        let l = regwave::laurent::Laurent::tempered(&f.polygon());
-        let a = regwave::attractor::solve_levels(&l, level..=level, 20).expect("attractor")[0]
+    for f in regwave::lattice::catalogue::all().iter().filter(|f| f.applicable) {
+        let l = regwave::curve::laurent::Laurent::tempered(&f.polygon());
+        let a = regwave::curve::attractor::solve_levels(&l, level..=level, 20).expect("attractor")[0]
             .modulus
             .to_f64();
         let t = Instant::now();

@@ -9,9 +9,9 @@
 mod common;
 
 use num_complex::Complex64;
-use regwave::cover::Curve;
-use regwave::eigenfn::Eigenfunction;
-use regwave::numeric::CNum;
+use regwave::curve::cover::Curve;
+use regwave::eigenfunction::construction::Eigenfunction;
+use regwave::numerics::complex::CNum;
 use rug::Complex;
 
 fn disc_expanded<T: CNum>(curve: &Curve<T>, x: &T) -> T {
@@ -31,7 +31,7 @@ fn disc_direct<T: CNum>(curve: &Curve<T>, x: &T) -> T {
 fn main() {
     let (id, l, level) = common::family_and_level("F0*", 1);
     let bits = 256;
-    let a_hi = regwave::attractor::solve_levels(&l, level..=level, 40).expect("attractor")[0]
+    let a_hi = regwave::curve::attractor::solve_levels(&l, level..=level, 40).expect("attractor")[0]
         .modulus
         .clone();
     let a = a_hi.to_f64();

@@ -2,10 +2,10 @@
 //! `cargo run --release --example offsets`.
 
 use num_complex::Complex64;
-use regwave::catalogue;
-use regwave::laurent::Laurent;
-use regwave::periods;
-use regwave::spectrum::{self, SpectrumOptions};
+use regwave::lattice::catalogue;
+use regwave::curve::laurent::Laurent;
+use regwave::curve::periods;
+use regwave::operator::spectrum::{self, SpectrumOptions};
 
 fn main() {
     for f in catalogue::all().iter().filter(|f| f.applicable) {

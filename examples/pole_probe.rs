@@ -1,12 +1,12 @@
 //! Growth of |ψ| near r = ±2πi (development aid): `cargo run --release --example pole_probe -- F1`.
 use num_complex::Complex64;
-use regwave::eigenfn::Eigenfunction;
+use regwave::eigenfunction::construction::Eigenfunction;
 fn main() {
     for id in ["F1", "dP3", "Q5", "T6", "Q6", "dP2*", "F0*", "F2"] {
-        let l = regwave::laurent::Laurent::tempered(
-            &regwave::catalogue::by_id(id).expect("id").polygon(),
+        let l = regwave::curve::laurent::Laurent::tempered(
+            &regwave::lattice::catalogue::by_id(id).expect("id").polygon(),
         );
-        let a = regwave::attractor::solve_levels(&l, 1..=1, 20).expect("a")[0]
+        let a = regwave::curve::attractor::solve_levels(&l, 1..=1, 20).expect("a")[0]
             .modulus
             .to_f64();
         let eig = Eigenfunction::new(&l, Complex64::new(a, 0.0), 15.0, None, 0.3).expect("eig");

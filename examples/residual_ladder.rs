@@ -2,13 +2,13 @@
 //! spine marching (development aid): `cargo run --release --example residual_ladder -- F0 5`.
 mod common;
 
-use regwave::eigenfn::Eigenfunction;
-use regwave::numeric::CNum;
-use regwave::operator::QuantumCurve;
+use regwave::eigenfunction::construction::Eigenfunction;
+use regwave::numerics::complex::CNum;
+use regwave::operator::quantum_curve::QuantumCurve;
 use rug::Complex;
 fn main() {
     let (_, l, level) = common::family_and_level("F0", 0);
-    let a = regwave::attractor::solve_levels(&l, level..=level, 80).expect("a")[0]
+    let a = regwave::curve::attractor::solve_levels(&l, level..=level, 80).expect("a")[0]
         .modulus
         .clone();
     let q = QuantumCurve::new(&l).expect("q");

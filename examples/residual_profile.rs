@@ -2,7 +2,7 @@
 //! `cargo run --release --example residual_profile -- T6 2 16`.
 mod common;
 
-use regwave::profile::{self, ProfileOptions, Target};
+use regwave::eigenfunction::profile::{self, ProfileOptions, Target};
 fn main() {
     let (id, l, level) = common::family_and_level("T6", 2);
     let digits: u32 = std::env::args()

@@ -32,26 +32,15 @@
 //! - [`plot`]: figures as SVG strings and PNG bytes from plain data (no I/O): stacked profiles,
 //!   strip heat maps, residuals, ν(a) with its attractors, agreement digits.
 
-pub mod attractor;
-pub mod audit;
-pub mod catalogue;
-pub mod cover;
-pub mod eigenfn;
-pub mod figures;
-pub mod laurent;
-pub mod numeric;
+pub mod checks;
+pub mod curve;
+pub mod eigenfunction;
+pub mod input;
+pub mod lattice;
+pub mod numerics;
 pub mod operator;
-pub mod periods;
-pub mod plot;
-pub mod polygon;
+pub mod output;
 pub mod precision;
-pub mod profile;
-pub mod quad;
-pub mod recurrence;
-pub mod report;
-pub mod selection;
-pub mod spectrum;
-pub mod verify;
 
 /// The version of this tool, recorded in every output.
 pub const TOOL_VERSION: &str = env!("CARGO_PKG_VERSION");

@@ -4,13 +4,16 @@ use clap::{Args, Parser, Subcommand};
 use indicatif::{ProgressBar, ProgressStyle};
 use num_complex::Complex64;
 use rayon::prelude::*;
-use regwave::audit::{self, Audit, AuditError, AuditOptions, CheckOptions};
-use regwave::eigenfn;
+use regwave::checks::audit::{self, Audit, AuditError, AuditOptions, CheckOptions};
+use regwave::eigenfunction::construction;
 use regwave::precision::{bits_for_digits, check_digits, with_guard, PrecisionError};
-use regwave::profile::{self, Profile, ProfileError, ProfileOptions, Target};
-use regwave::selection::{self, Selection, SelectionError};
-use regwave::spectrum::{self, SpectrumError, SpectrumOptions};
-use regwave::{attractor, catalogue, figures, periods, report, TOOL_VERSION};
+use regwave::eigenfunction::profile::{self, Profile, ProfileError, ProfileOptions, Target};
+use regwave::input::selection::{self, Selection, SelectionError};
+use regwave::operator::spectrum::{self, SpectrumError, SpectrumOptions};
+use regwave::curve::{attractor, periods};
+use regwave::lattice::catalogue;
+use regwave::output::{figures, report};
+use regwave::TOOL_VERSION;
 use serde_json::{json, Value};
 use std::io::IsTerminal;
 use std::path::{Path, PathBuf};
@@ -477,7 +480,7 @@ fn build_command(args: &BuildArgs) -> Result<(), Failure> {
     let start = Instant::now();
     check_digits(args.digits)?;
     let sel = select(&args.family)?;
-    let grid = eigenfn::Grid::parse(&args.grid).map_err(Failure::input)?;
+    let grid = construction::Grid::parse(&args.grid).map_err(Failure::input)?;
     let target = target_of(args.target.level, &args.target.modulus)?;
     // Refuse to overwrite unless --force, before computing anything expensive.
     let files: Vec<&str> = if args.strip {
@@ -604,7 +607,7 @@ fn audit_command(args: &AuditArgs) -> Result<(), Failure> {
     check_digits(args.digits)?;
     let sel = select(&args.family)?;
     let levels = selection::parse_levels(&args.levels)?;
-    let grid = eigenfn::Grid::parse(&args.grid).map_err(Failure::input)?;
+    let grid = construction::Grid::parse(&args.grid).map_err(Failure::input)?;
     let out = args
         .out
         .clone()
@@ -699,7 +702,7 @@ fn figure_files(figs: &[figures::Figure], png: bool) -> Result<Vec<(String, Vec<
     for f in figs {
         out.push((format!("{}.svg", f.name), f.svg.clone().into_bytes()));
         if png {
-            let bytes = regwave::plot::to_png(&f.svg, 1280).map_err(Failure::compute)?;
+            let bytes = regwave::output::plot::to_png(&f.svg, 1280).map_err(Failure::compute)?;
             out.push((format!("{}.png", f.name), bytes));
         }
     }
@@ -731,7 +734,7 @@ fn check_command(args: &CheckArgs) -> Result<(), Failure> {
     let start = Instant::now();
     check_digits(args.digits)?;
     let sel = select(&args.family)?;
-    let grid = eigenfn::Grid::parse(&args.grid).map_err(Failure::input)?;
+    let grid = construction::Grid::parse(&args.grid).map_err(Failure::input)?;
     let target = target_of(args.target.level, &args.target.modulus)?;
     let options = CheckOptions {
         grid: grid.values(),
@@ -817,7 +820,7 @@ const TOUR_HIGH: (&str, usize, u32, &str) = ("F0", 2, 40, "-10:10:201");
 fn tour(out: &Path, png: bool) -> Result<(), Failure> {
     let start = Instant::now();
     ensure_writable(out)?;
-    let grid = eigenfn::Grid::parse(TOUR_GRID)
+    let grid = construction::Grid::parse(TOUR_GRID)
         .map_err(Failure::input)?
         .values();
     let selections: Vec<Selection> = TOUR_FAMILIES
@@ -843,7 +846,7 @@ fn tour(out: &Path, png: bool) -> Result<(), Failure> {
         &high_sel.laurent,
         &Target::Level(TOUR_HIGH.1),
         &ProfileOptions {
-            grid: eigenfn::Grid::parse(TOUR_HIGH.3)
+            grid: construction::Grid::parse(TOUR_HIGH.3)
                 .map_err(Failure::input)?
                 .values(),
             strip: true,

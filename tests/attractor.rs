@@ -1,8 +1,8 @@
 //! Attractor moduli: against the checked values, the independent spectrum, and precision.
 
-use regwave::attractor;
-use regwave::laurent::Laurent;
-use regwave::selection;
+use regwave::curve::attractor;
+use regwave::curve::laurent::Laurent;
+use regwave::input::selection;
 use rug::Float;
 
 fn family(id: &str) -> Laurent {
@@ -64,8 +64,8 @@ fn checked_values_at_thirty_digits() {
 fn attractor_moduli_are_the_independent_eigenvalues_for_every_family() {
     // Levels 0..5 of all 15 families: ν(a_n) = n + 1 at the harmonic-oscillator eigenvalues, to
     // the digits the spectrum supports (≥ 12 for F0, P2, dP3: MATH.md §4 / issue requirement).
-    use regwave::catalogue;
-    use regwave::spectrum::{self, SpectrumOptions};
+    use regwave::lattice::catalogue;
+    use regwave::operator::spectrum::{self, SpectrumOptions};
     for f in catalogue::all().iter().filter(|f| f.applicable) {
         let l = family(f.id);
         let main = ["F0", "P2", "dP3"].contains(&f.id);

@@ -3,9 +3,9 @@
 //! is conjectured — both directions are checked, and an unmatched level fails the test with its
 //! numbers (a finding to report, never something to tune away).
 
-use regwave::audit::{self, Audit, AuditOptions};
-use regwave::catalogue;
-use regwave::selection;
+use regwave::checks::audit::{self, Audit, AuditOptions};
+use regwave::lattice::catalogue;
+use regwave::input::selection;
 
 fn run(id: &str, digits: u32) -> Audit {
     let l = selection::resolve(Some(id), None, None).unwrap().laurent;

@@ -1,8 +1,8 @@
-//! Tests of `regwave::catalogue`: the table is re-derived by brute force and checked entry by
+//! Tests of `regwave::lattice::catalogue`: the table is re-derived by brute force and checked entry by
 //! entry (classes, strip forms, widths, duals, look-up).
 
-use regwave::catalogue::{self, CatalogueError, Family};
-use regwave::polygon::{LatticePoint, Polygon};
+use regwave::lattice::catalogue::{self, CatalogueError, Family};
+use regwave::lattice::polygon::{LatticePoint, Polygon};
 use std::collections::{BTreeMap, HashSet};
 use std::sync::OnceLock;
 

@@ -3,13 +3,13 @@
 //! analyticity, and the negative controls off the attractor modulus.
 
 use num_complex::Complex64;
-use regwave::attractor;
-use regwave::eigenfn::Eigenfunction;
-use regwave::laurent::Laurent;
-use regwave::operator::QuantumCurve;
-use regwave::selection;
-use regwave::spectrum::{self, SpectrumOptions};
-use regwave::verify;
+use regwave::curve::attractor;
+use regwave::eigenfunction::construction::Eigenfunction;
+use regwave::curve::laurent::Laurent;
+use regwave::operator::quantum_curve::QuantumCurve;
+use regwave::input::selection;
+use regwave::operator::spectrum::{self, SpectrumOptions};
+use regwave::checks::verify;
 
 fn family(id: &str) -> Laurent {
     selection::resolve(Some(id), None, None).unwrap().laurent
@@ -133,7 +133,7 @@ fn level_n_has_n_zeros_between_the_outermost_turning_points() {
     // The counters' negative companions are in tests/verify.rs.
     for id in ["F0", "P2", "dP3"] {
         let l = family(id);
-        let rule = regwave::eigenfn::reality_rule(&l);
+        let rule = regwave::eigenfunction::construction::reality_rule(&l);
         assert!(rule.is_some(), "{id} has a reality rule");
         for (n, &a) in attractor_moduli(id, 0..=5).iter().enumerate() {
             let eig = Eigenfunction::new(&l, Complex64::new(a, 0.0), 15.0, None, 0.3).unwrap();
@@ -156,7 +156,7 @@ fn staircase_around(
     b: [f64; 2],
     base: Complex64,
     c: f64,
-    singular: &[regwave::cover::Singular<Complex64>],
+    singular: &[regwave::curve::cover::Singular<Complex64>],
 ) -> Vec<Complex64> {
     let two_pi = 2.0 * std::f64::consts::PI;
     let (p, q) = (b[0], b[1] - two_pi * ((b[1] - c) / two_pi).ceil());
@@ -200,7 +200,7 @@ fn shift_relation_on_independent_routes() {
     // the β cycle. Holds at the attractor modulus, fails off it (a β loop multiplies χ by
     // e^{−2πiν}, ν no longer an integer). dP3's pair ±r_c + is shares its real parts with the
     // conjugate pair ±r_c − is, which the staircase passes between.
-    use regwave::periods;
+    use regwave::curve::periods;
     let two_pi = 2.0 * std::f64::consts::PI;
     let same_point = |u: [f64; 2], v: [f64; 2]| {
         let k = ((u[1] - v[1]) / two_pi).round();
@@ -263,8 +263,8 @@ fn reality_rules_hold_for_every_family_that_has_one() {
     // (an antiunitary symmetry of Ô; MATH.md §2 states k = 0 for F0 and k = −1 for P2, dP3).
     // Measured for all 15 families at level 1; the rule is checked, and where a family has none
     // the test records it.
-    use regwave::catalogue;
-    use regwave::eigenfn::{reality_factor, reality_rule};
+    use regwave::lattice::catalogue;
+    use regwave::eigenfunction::construction::{reality_factor, reality_rule};
     assert_eq!(reality_rule(&family("F0")), Some(0));
     assert_eq!(reality_rule(&family("P2")), Some(-1));
     assert_eq!(reality_rule(&family("dP3")), Some(-1));
@@ -345,8 +345,8 @@ fn decay_rates_on_the_real_line() {
 /// e^{−|r|} otherwise, with a prefactor |r| at a merging end. MATH.md §2 states the rates of P2
 /// (1/2 on the left, where x → 0 is a branch point; 1 on the right) and of F0 and dP3 (1 on both
 /// sides); the other rows are this project's measurement.
-fn documented_ends() -> [(&'static str, [regwave::cover::EndRoots; 2]); 15] {
-    use regwave::cover::EndRoots::{Branched as B, Merging as M, Separate as S};
+fn documented_ends() -> [(&'static str, [regwave::curve::cover::EndRoots; 2]); 15] {
+    use regwave::curve::cover::EndRoots::{Branched as B, Merging as M, Separate as S};
     [
         ("P2", [B, S]),
         ("F0", [S, S]),
@@ -366,8 +366,8 @@ fn documented_ends() -> [(&'static str, [regwave::cover::EndRoots; 2]); 15] {
     ]
 }
 
-fn documented_rate(end: regwave::cover::EndRoots) -> f64 {
-    if end == regwave::cover::EndRoots::Branched {
+fn documented_rate(end: regwave::curve::cover::EndRoots) -> f64 {
+    if end == regwave::curve::cover::EndRoots::Branched {
         0.5
     } else {
         1.0
@@ -382,8 +382,8 @@ fn decay_rates_of_all_fifteen_families() {
     // merging end (measured 1.27–1.37; e^{|r|}|ψ| becomes linear in |r|), p ≤ 0.7 elsewhere
     // (measured 0.00–0.47). Negative companion: the swapped value (1 for 1/2 and back) misses
     // every end by far more than 2 %.
-    use regwave::catalogue;
-    use regwave::cover::EndRoots;
+    use regwave::lattice::catalogue;
+    use regwave::curve::cover::EndRoots;
     let table = documented_ends();
     assert_eq!(
         table.len(),

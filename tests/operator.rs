@@ -1,10 +1,10 @@
 //! The ħ = 2π shift form of the quantum curve.
 
 use num_complex::Complex64;
-use regwave::catalogue;
-use regwave::laurent::Laurent;
-use regwave::numeric::CNum;
-use regwave::operator::QuantumCurve;
+use regwave::lattice::catalogue;
+use regwave::curve::laurent::Laurent;
+use regwave::numerics::complex::CNum;
+use regwave::operator::quantum_curve::QuantumCurve;
 use rug::Complex;
 
 #[test]

@@ -1,13 +1,13 @@
 //! Periods and regulator periods: series against path, elliptic integrals, Mahler measures,
 //! path-deformation invariance and puncture loops.
 
-use regwave::catalogue;
-use regwave::cover::{Curve, March};
-use regwave::laurent::Laurent;
-use regwave::numeric::CNum;
-use regwave::periods::{self, CyclePeriods};
-use regwave::quad;
-use regwave::selection;
+use regwave::lattice::catalogue;
+use regwave::curve::cover::{Curve, March};
+use regwave::curve::laurent::Laurent;
+use regwave::numerics::complex::CNum;
+use regwave::curve::periods::{self, CyclePeriods};
+use regwave::numerics::quadrature;
+use regwave::input::selection;
 use rug::float::Constant;
 use rug::{Complex, Float};
 
@@ -75,7 +75,7 @@ fn f0_alpha_period_is_an_agm_to_forty_digits() {
 fn jensen_mahler_k2(bits: u32) -> Float {
     let half_pi = Float::with_val(bits, Constant::Pi) / 2u32;
     let top = Float::with_val(bits, half_pi.sqrt_ref());
-    let rule = quad::rule(80, bits);
+    let rule = quadrature::rule(80, bits);
     let mut sum = Float::new(bits);
     for (t, w) in rule.nodes.iter().zip(&rule.weights) {
         // w ∈ [0, top]: w = top (1 + t)/2

@@ -6,7 +6,7 @@
 //! --ignored` writes them there as SVG and PNG.
 
 use num_complex::Complex64;
-use regwave::plot::{
+use regwave::output::plot::{
     agreement_plot, nu_plot, residual_plot, stacked_profiles, strip_heatmap, to_png, AgreementBars,
     NuCurve, PlotError, ProfileSeries, ResidualSeries, StripMap, FIGURE_SIZE, MISSING_CELL,
     STRIP_FIGURE_SIZE,

@@ -1,8 +1,8 @@
-//! Tests of `regwave::polygon`: hull, lattice points, reflexivity, lattice width, normal form,
+//! Tests of `regwave::lattice::polygon`: hull, lattice points, reflexivity, lattice width, normal form,
 //! strip form, parsing, and every error path.
 
-use regwave::catalogue;
-use regwave::polygon::{parse_vertices, LatticePoint, Mat2, Polygon, PolygonError, MAX_COORDINATE};
+use regwave::lattice::catalogue;
+use regwave::lattice::polygon::{parse_vertices, LatticePoint, Mat2, Polygon, PolygonError, MAX_COORDINATE};
 
 /// xorshift64*: a small deterministic generator, so failures reproduce.
 struct Rng(u64);

@@ -1,8 +1,8 @@
 //! Reference checks of the independent harmonic-oscillator spectrum at ħ = 2π.
 
-use regwave::laurent::Laurent;
-use regwave::selection;
-use regwave::spectrum::{self, SpectrumOptions};
+use regwave::curve::laurent::Laurent;
+use regwave::input::selection;
+use regwave::operator::spectrum::{self, SpectrumOptions};
 use rug::float::Constant;
 use rug::Float;
 

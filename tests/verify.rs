@@ -1,20 +1,20 @@
 //! The checks of MATH.md §7 as figures, each with a negative companion that makes it fail.
 
 use num_complex::Complex64;
-use regwave::audit::{match_moduli, Unmatched};
-use regwave::catalogue;
-use regwave::eigenfn::Eigenfunction;
-use regwave::laurent::Laurent;
-use regwave::selection;
-use regwave::spectrum::{self, SpectrumOptions};
-use regwave::verify;
+use regwave::checks::audit::{match_moduli, Unmatched};
+use regwave::lattice::catalogue;
+use regwave::eigenfunction::construction::Eigenfunction;
+use regwave::curve::laurent::Laurent;
+use regwave::input::selection;
+use regwave::operator::spectrum::{self, SpectrumOptions};
+use regwave::checks::verify;
 
 fn family(id: &str) -> Laurent {
     selection::resolve(Some(id), None, None).unwrap().laurent
 }
 
 fn modulus(id: &str, level: usize) -> f64 {
-    regwave::attractor::solve_levels(&family(id), level..=level, 20).unwrap()[0]
+    regwave::curve::attractor::solve_levels(&family(id), level..=level, 20).unwrap()[0]
         .modulus
         .to_f64()
 }
@@ -174,7 +174,7 @@ fn zeros_inside_equal_the_level_for_real_and_complex_families() {
     // operators; common practice, no source): F0 (real ψ), P2 (reality rule k = −1), F1 and
     // dP2 (no reality rule: phase slips), levels 0..4.
     for id in ["F0", "P2", "F1", "dP2"] {
-        let rule = regwave::eigenfn::reality_rule(&family(id));
+        let rule = regwave::eigenfunction::construction::reality_rule(&family(id));
         for n in 0..=4 {
             let z = verify::zeros_inside(&eig(id, modulus(id, n)), rule).unwrap();
             assert_eq!(z.count, n, "{id} level {n}: {:?}", z.positions);
@@ -202,7 +202,7 @@ fn matching_both_ways_flags_what_does_not_match() {
     // F0 attractor moduli against the F0 spectrum match; an eigenvalue moved by 1e-5 (relative)
     // is unmatched in both directions; a swapped label is reported as such.
     let l = family("F0");
-    let at = regwave::attractor::solve_levels(&l, 0..=2, 20).unwrap();
+    let at = regwave::curve::attractor::solve_levels(&l, 0..=2, 20).unwrap();
     let spec = spectrum_of(&l, 3, 200);
     let moduli: Vec<(f64, i64)> = at.iter().map(|a| (a.modulus.to_f64(), a.nu)).collect();
     let eigen: Vec<(f64, f64)> = spec
@@ -229,16 +229,16 @@ fn truncated_precision_breaks_the_precision_ladder() {
     // dependence at 40 digits sees the truncation too (negative companions of the precision
     // ladder). The eigen-equation residual does not: it stays at 1e-49 for the truncated modulus
     // (measured), because the shift routes never change sheet — MATH.md §5.
-    use regwave::numeric::CNum;
+    use regwave::numerics::complex::CNum;
     use regwave::precision::{bits_for_digits, with_guard};
     use rug::Complex;
     let l = family("F0");
-    let full = regwave::attractor::solve_levels(&l, 2..=2, 60).unwrap()[0]
+    let full = regwave::curve::attractor::solve_levels(&l, 2..=2, 60).unwrap()[0]
         .modulus
         .clone();
     let truncated = rug::Float::with_val(
         400,
-        rug::Float::parse(regwave::report::decimal(&full, 17)).unwrap(),
+        rug::Float::parse(regwave::output::report::decimal(&full, 17)).unwrap(),
     );
     let build = |a: &rug::Float, digits: u32| {
         let bits = with_guard(bits_for_digits(digits as f64));
@@ -287,13 +287,13 @@ fn tail_zeros_follow_the_root_exponent_gap() {
     // where the roots meet at the end there is no sustained oscillation. Checked for every family
     // at level 2 on r ∈ [−40, 40] (measured constants: 2.00, 4.00, 1.33 within 1 %).
     use rayon::prelude::*;
-    use regwave::cover::SingularKind;
+    use regwave::curve::cover::SingularKind;
     let grid: Vec<f64> = (0..=4000).map(|k| -40.0 + 0.02 * k as f64).collect();
     let families: Vec<_> = catalogue::all().iter().filter(|f| f.applicable).collect();
     families.par_iter().for_each(|f| {
         let e = eig(f.id, modulus(f.id, 2));
         let values = e.psi_on_line(&grid, 0.0).unwrap();
-        let rule = regwave::eigenfn::reality_rule(&family(f.id));
+        let rule = regwave::eigenfunction::construction::reality_rule(&family(f.id));
         let res: Vec<f64> = e
             .curve()
             .singular_points()

@@ -25,9 +25,9 @@
 //! Canad. J. Math. 54 (2002); "Modular Mahler measures I", Topics in Number Theory (1999).
 //! See `docs/REFERENCES.md`.
 
-use crate::numeric::CNum;
-use crate::polygon::{LatticePoint, Polygon};
-use crate::recurrence::{self, RecurrenceError, Term};
+use crate::numerics::complex::CNum;
+use crate::lattice::polygon::{LatticePoint, Polygon};
+use crate::curve::recurrence::{self, RecurrenceError, Term};
 use rug::Integer;
 use std::fmt;
 use thiserror::Error;

@@ -75,7 +75,7 @@
 //!
 //! # Example
 //! ```
-//! use regwave::recurrence::{constant_terms, guess};
+//! use regwave::curve::recurrence::{constant_terms, guess};
 //! // F0: φ = x + 1/x + y + 1/y; [φ²ᵏ]₀ = C(2k, k)² (OEIS A002894).
 //! let f0 = [([1, 0], 1), ([-1, 0], 1), ([0, 1], 1), ([0, -1], 1)];
 //! let u = constant_terms(&f0, 6).unwrap();
@@ -172,7 +172,7 @@ impl Recurrence {
     /// `p_j(n)`, exactly.
     ///
     /// ```
-    /// use regwave::recurrence::{guess, Term};
+    /// use regwave::curve::recurrence::{guess, Term};
     /// let p2: [Term; 3] = [([1, 0], 1), ([0, 1], 1), ([-1, -1], 1)];
     /// let rec = guess(&p2).unwrap();
     /// // (n + 3)² u_{n+3} = 27 (n + 1)(n + 2) u_n, from the closed form (OEIS A006480).
@@ -214,7 +214,7 @@ impl Recurrence {
     /// `n + r`, [`RecurrenceError::InexactStep`] if a step does not divide exactly.
     ///
     /// ```
-    /// use regwave::recurrence::guess;
+    /// use regwave::curve::recurrence::guess;
     /// use rug::Integer;
     /// let f0 = [([1, 0], 1), ([-1, 0], 1), ([0, 1], 1), ([0, -1], 1)];
     /// let rec = guess(&f0).unwrap();
@@ -344,7 +344,7 @@ pub fn required_terms(order: usize, degree: usize) -> usize {
 /// `[φⁿ]₀` for n = 0..=n_max by direct expansion (exact; cost O(n³)).
 ///
 /// ```
-/// use regwave::recurrence::constant_terms_direct;
+/// use regwave::curve::recurrence::constant_terms_direct;
 /// // The hexagon: closed walks on the triangular lattice (OEIS A002898).
 /// let hexagon = [([1, 0], 1), ([1, 1], 1), ([0, 1], 1), ([-1, 0], 1), ([-1, -1], 1), ([0, -1], 1)];
 /// assert_eq!(constant_terms_direct(&hexagon, 4), [1, 0, 6, 12, 90]);
@@ -378,7 +378,7 @@ pub fn guess(terms: &[Term]) -> Result<Recurrence, RecurrenceError> {
 /// for [`guess`].
 ///
 /// ```
-/// use regwave::recurrence::{guess_from_terms, MAX_DEGREE, MAX_ORDER};
+/// use regwave::curve::recurrence::{guess_from_terms, MAX_DEGREE, MAX_ORDER};
 /// use rug::Integer;
 /// // OEIS A000108: (n + 2) C_{n+1} = (4n + 2) C_n.
 /// let mut u = vec![Integer::from(1)];

@@ -106,7 +106,7 @@ impl Polygon {
     /// two-dimensional, including for empty input.
     ///
     /// ```
-    /// use regwave::polygon::Polygon;
+    /// use regwave::lattice::polygon::Polygon;
     /// let p = Polygon::from_points(&[[0, 1], [1, 0], [0, 0], [-1, -1], [1, 0]]).unwrap();
     /// assert_eq!(p.vertices(), &[[-1, -1], [1, 0], [0, 1]]);
     /// ```
@@ -682,7 +682,7 @@ fn narrow_row(row: [i128; 2]) -> Result<[i64; 2], PolygonError> {
 /// or extra coordinates, non-integers, out-of-range integers, missing separators).
 ///
 /// ```
-/// use regwave::polygon::parse_vertices;
+/// use regwave::lattice::polygon::parse_vertices;
 /// assert_eq!(parse_vertices(" (1,0), (0, 1),(-1,-1) ").unwrap(), vec![[1, 0], [0, 1], [-1, -1]]);
 /// assert!(parse_vertices("(1,0,2)").is_err());
 /// ```

@@ -34,7 +34,7 @@
 //!
 //! # Example
 //! ```
-//! use regwave::plot::{agreement_plot, to_png, AgreementBars};
+//! use regwave::output::plot::{agreement_plot, to_png, AgreementBars};
 //!
 //! let bars = [AgreementBars {
 //!     family: "F0".into(),
@@ -46,7 +46,7 @@
 //! assert!(svg.contains("agreement digits"));
 //! let png = to_png(&svg, 1280)?;
 //! assert_eq!(&png[1..4], b"PNG");
-//! # Ok::<(), regwave::plot::PlotError>(())
+//! # Ok::<(), regwave::output::plot::PlotError>(())
 //! ```
 //!
 //! # Errors

@@ -1,5 +1,5 @@
-//! The figures of an audit or a profile: the data of [`crate::audit`] and [`crate::profile`]
-//! laid out for [`crate::plot`]. Pure: returns SVG documents with file stems and captions; the
+//! The figures of an audit or a profile: the data of [`crate::checks::audit`] and [`crate::eigenfunction::profile`]
+//! laid out for [`crate::output::plot`]. Pure: returns SVG documents with file stems and captions; the
 //! binary writes them (and their PNG versions on request).
 //!
 //! # Conventions
@@ -11,12 +11,12 @@
 //! - Residuals are per grid point, relative to max|ψ| on the grid, with the working precision of
 //!   each level as the floor line when all levels share it.
 
-use crate::audit::Audit;
-use crate::eigenfn;
-use crate::plot::{
+use crate::checks::audit::Audit;
+use crate::eigenfunction::construction;
+use crate::output::plot::{
     self, AgreementBars, NuCurve, PlotError, ProfileSeries, ResidualSeries, StripMap,
 };
-use crate::profile::Profile;
+use crate::eigenfunction::profile::Profile;
 use num_complex::Complex64;
 
 /// One figure: its file stem, SVG document and a caption for reports.
@@ -56,7 +56,7 @@ pub fn profiles(family: &str, levels: &[&Profile]) -> Result<Figure, PlotError> 
                 .iter()
                 .zip(&p.main)
                 .map(|(&r, v)| match (v, p.rule) {
-                    (Some(v), Some(k)) => v * eigenfn::reality_factor(k, r),
+                    (Some(v), Some(k)) => v * construction::reality_factor(k, r),
                     (Some(v), None) => *v,
                     (None, _) => Complex64::new(f64::NAN, f64::NAN),
                 })
@@ -158,7 +158,7 @@ pub fn agreement(audits: &[(&str, &Audit)]) -> Result<Figure, PlotError> {
     })
 }
 
-/// |ψ| and arg ψ over the strip |Im r| ≤ 2π from sampled lines (see [`crate::profile::strip_map`]).
+/// |ψ| and arg ψ over the strip |Im r| ≤ 2π from sampled lines (see [`crate::eigenfunction::profile::strip_map`]).
 ///
 /// # Errors
 /// See [`PlotError`].

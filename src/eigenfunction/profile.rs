@@ -4,7 +4,7 @@
 //! so that the reported digits are real.
 //!
 //! # Method
-//! 1. The modulus: the attractor modulus of a level (ν = n + 1, [`crate::attractor`]), or a given
+//! 1. The modulus: the attractor modulus of a level (ν = n + 1, [`crate::curve::attractor`]), or a given
 //!    modulus, refused when ν is more than [`ATTRACTOR_TOLERANCE`] from an integer unless allowed.
 //! 2. The working precision: the exponent integrals grow like |λ| = |R_α/Ω_α| (≈ 50 at F0 level 0,
 //!    2e5 at level 9) and exp loses log₁₀|λ| digits (measured residual ≈ 2e-15·|λ| in double
@@ -20,7 +20,7 @@
 //!    A or C vanishes at x = −1) the products A·ψ(r − 2πi), C·ψ(r + 2πi) are finite and are
 //!    evaluated as limits: by the mean-value formula of the analytic product on a circle around r.
 //! 6. Unit L² norm on R ([`Eigenfunction::normalization`]) and the phase rule: with a reality rule
-//!    k ([`eigenfn::reality_rule`]) e^{−ikr²/(8π)}ψ is made real and positive where |ψ| is largest
+//!    k ([`construction::reality_rule`]) e^{−ikr²/(8π)}ψ is made real and positive where |ψ| is largest
 //!    on the grid; otherwise ψ itself is made real and positive there.
 //!
 //! # Accuracy
@@ -33,15 +33,15 @@
 //! # References
 //! MATH.md §5–7.
 
-use crate::attractor::{self, AttractorError};
-use crate::cover::{CoverError, Curve, March};
-use crate::eigenfn::{self, EigenError, Eigenfunction, Normalization, Pole};
-use crate::laurent::{Laurent, LaurentError};
-use crate::numeric::CNum;
-use crate::operator::QuantumCurve;
-use crate::periods::{self, PeriodsError};
+use crate::curve::attractor::{self, AttractorError};
+use crate::curve::cover::{CoverError, Curve, March};
+use crate::eigenfunction::construction::{self, EigenError, Eigenfunction, Normalization, Pole};
+use crate::curve::laurent::{Laurent, LaurentError};
+use crate::numerics::complex::CNum;
+use crate::operator::quantum_curve::QuantumCurve;
+use crate::curve::periods::{self, PeriodsError};
 use crate::precision::{bits_for_digits, digits_for_bits, with_guard, MAX_DIGITS};
-use crate::selection::{self, SelectionError};
+use crate::input::selection::{self, SelectionError};
 use num_complex::Complex64;
 use rug::Float;
 use thiserror::Error;
@@ -422,7 +422,7 @@ fn sample<T: CNum + Send + Sync>(
     let mut main = round(&raw.main);
     let mut up = round(&raw.up);
     let mut down = round(&raw.down);
-    let rule = eigenfn::reality_rule(laurent);
+    let rule = construction::reality_rule(laurent);
     let fixed = rule.and_then(|k| {
         fix_phase(
             k,
@@ -453,7 +453,7 @@ fn sample<T: CNum + Send + Sync>(
         up,
         down,
         residual,
-        poles: eigenfn::strip_poles(eig.curve()),
+        poles: construction::strip_poles(eig.curve()),
         branch_points,
         rule,
         reality_defect,
@@ -494,7 +494,7 @@ fn fix_phase(
     let g: Vec<Complex64> = main
         .iter()
         .zip(grid)
-        .filter_map(|(v, &r)| v.map(|v| v * eigenfn::reality_factor(k, r)))
+        .filter_map(|(v, &r)| v.map(|v| v * construction::reality_factor(k, r)))
         .filter(|v| v.is_finite())
         .collect();
     let peak = g
@@ -625,7 +625,7 @@ fn pole_product<T: CNum>(
         .ceil()
         .max(16.0) as usize;
     let mut acc = r.int_like(0);
-    for w in eigenfn::mean_value_circle(r, rho, m) {
+    for w in construction::mean_value_circle(r, rho, m) {
         let c = q.coefficients(&w);
         let coefficient = if side < 0 { c.down } else { c.up };
         acc = acc + coefficient * eig.psi(&(w + shift.clone()))?;
@@ -640,7 +640,7 @@ mod tests {
     /// The hexagon dP3 from the catalogue: poles of ψ at ±2πi, cancelled in the eigen-equation
     /// by the zeros of A and C at r = 0.
     fn hexagon() -> Laurent {
-        Laurent::tempered(&crate::catalogue::by_id("dP3").unwrap().polygon())
+        Laurent::tempered(&crate::lattice::catalogue::by_id("dP3").unwrap().polygon())
     }
 
     #[test]

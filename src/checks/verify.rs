@@ -3,7 +3,7 @@
 //! points), agreement with the independent harmonic-oscillator eigenvector, zeros inside the
 //! outermost turning points, orthogonality, the L² norm on the sampled grid, and the ν(a) scan
 //! that finds every attractor modulus in a window. The eigen-equation residual itself is formed
-//! where the lines are sampled ([`crate::profile`]).
+//! where the lines are sampled ([`crate::eigenfunction::profile`]).
 //!
 //! # Formulas and conventions
 //! - **Route dependence**: ψ from two constructions with different base points and spines
@@ -50,12 +50,12 @@
 //! MATH.md §5 and §7; trapezoid rule on circles for analytic functions: "The exponentially
 //! convergent trapezoidal rule", SIAM Review 56 (2014) 385–458.
 
-use crate::attractor::{AttractorError, Family};
-use crate::cover::SingularKind;
-use crate::eigenfn::{self, EigenError, Eigenfunction, Normalization};
-use crate::laurent::Laurent;
-use crate::numeric::CNum;
-use crate::spectrum::Spectrum;
+use crate::curve::attractor::{AttractorError, Family};
+use crate::curve::cover::SingularKind;
+use crate::eigenfunction::construction::{self, EigenError, Eigenfunction, Normalization};
+use crate::curve::laurent::Laurent;
+use crate::numerics::complex::CNum;
+use crate::operator::spectrum::Spectrum;
 use num_complex::Complex64;
 use thiserror::Error;
 
@@ -68,7 +68,7 @@ pub enum VerifyError {
     #[error(transparent)]
     Attractor(#[from] AttractorError),
     #[error(transparent)]
-    Cover(#[from] crate::cover::CoverError),
+    Cover(#[from] crate::curve::cover::CoverError),
     /// The independent spectrum does not contain the level.
     #[error("the independent spectrum has no level {level}")]
     MissingLevel { level: usize },
@@ -81,7 +81,7 @@ pub enum VerifyError {
 const ROUTE_POINTS: [f64; 4] = [-1.7, -0.3, 0.9, 2.2];
 
 /// Route dependence of the eigenfunction `eig` (built with the default spine and base point
-/// [`crate::profile::BASE_RE`]) against a second construction of φ at the same modulus with its
+/// [`crate::eigenfunction::profile::BASE_RE`]) against a second construction of φ at the same modulus with its
 /// base point at −0.8 and its spine 0.6 higher.
 ///
 /// # Errors
@@ -126,11 +126,11 @@ pub fn cauchy_defect<T: CNum>(eig: &Eigenfunction<T>) -> Result<f64, VerifyError
         let centre = [b.z.re_f64(), b.z.im_f64()];
         let gap = sing
             .iter()
-            .map(|s| crate::cover::periodic_distance(centre, [s.z.re_f64(), s.z.im_f64()]))
+            .map(|s| crate::curve::cover::periodic_distance(centre, [s.z.re_f64(), s.z.im_f64()]))
             .filter(|&d| d > 1e-9)
             .fold(1.0, f64::min);
         let rho = 0.4 * gap;
-        let circle = eigenfn::mean_value_circle(&b.z, rho, CAUCHY_POINTS);
+        let circle = construction::mean_value_circle(&b.z, rho, CAUCHY_POINTS);
         // Route: along the spine above the first circle point, down to it, once around, and back
         // to the first point (closure).
         let first = &circle[0];
@@ -244,7 +244,7 @@ pub fn zeros_inside<T: CNum>(
         .zip(&grid)
         .map(|(v, &r)| {
             let v = v.map(|v| v.to_c64()).unwrap_or_default();
-            rule.map(|k| v * eigenfn::reality_factor(k, r)).unwrap_or(v)
+            rule.map(|k| v * construction::reality_factor(k, r)).unwrap_or(v)
         })
         .collect();
     let (method, positions) = match rule {
@@ -484,7 +484,7 @@ pub struct TailZeros {
     /// fewer than two spacings.
     pub spacing_constant: Option<f64>,
     /// The predicted constant 4/Δm, Δm the exponent gap of the two roots at that end
-    /// ([`crate::cover::Curve::end_exponent_gaps`]); None where the roots meet at the end (no
+    /// ([`crate::curve::cover::Curve::end_exponent_gaps`]); None where the roots meet at the end (no
     /// oscillation: |ψ| decays like e^{−|r|/2} or with a power of |r|).
     pub predicted: Option<f64>,
 }
@@ -506,7 +506,7 @@ pub fn tail_zeros(
         .map(|(r, v)| {
             (
                 r,
-                rule.map(|k| v * eigenfn::reality_factor(k, r)).unwrap_or(v),
+                rule.map(|k| v * construction::reality_factor(k, r)).unwrap_or(v),
             )
         })
         .collect();

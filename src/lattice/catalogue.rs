@@ -19,7 +19,7 @@
 //! `F0 = (1,0),(0,1),(−1,0),(0,−1)`, `P2 = (1,0),(0,1),(−1,−1)`,
 //! `dP3 = (1,0),(1,1),(0,1),(−1,0),(−1,−1),(0,−1)`. Every applicable entry (these three
 //! included) stores the strip form chosen by the rule of
-//! [`Polygon::strip_form`](crate::polygon::Polygon::strip_form): symmetric under
+//! [`Polygon::strip_form`](crate::lattice::polygon::Polygon::strip_form): symmetric under
 //! `m₁ ↦ −m₁` if possible, then least `max |m₁|`, then least `Σ |m₁|` over the vertices,
 //! then least sorted vertex list; the three fixed forms are exactly what the rule gives. The
 //! table is data; the tests re-derive every entry (class list by brute force, strip forms
@@ -33,7 +33,7 @@
 //! "Lattice polygons and the number 12", Amer. Math. Monthly 107 (2000), 238–250: the 16
 //! classes, polar duality and `B(Δ) + B(Δ*) = 12`. Toric labels: common practice.
 
-use crate::polygon::{LatticePoint, Polygon};
+use crate::lattice::polygon::{LatticePoint, Polygon};
 use serde::Serialize;
 use thiserror::Error;
 

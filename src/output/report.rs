@@ -5,9 +5,9 @@
 //! `precision_bits` (where a computation ran) and `elapsed_s`. High-precision numbers are
 //! decimal strings holding only the digits the computation supports.
 
-use crate::catalogue::Family;
-use crate::laurent::Laurent;
-use crate::spectrum::Spectrum;
+use crate::lattice::catalogue::Family;
+use crate::curve::laurent::Laurent;
+use crate::operator::spectrum::Spectrum;
 use crate::TOOL_VERSION;
 use rug::Float;
 use serde_json::{json, Value};
@@ -252,7 +252,7 @@ pub fn complex_json(z: &rug::Complex, digits: u32) -> Value {
 /// `regwave periods --json`.
 pub fn periods_json(
     family: &str,
-    c: &crate::periods::Comparison,
+    c: &crate::curve::periods::Comparison,
     digits: u32,
     bits: u32,
     inputs: Value,
@@ -294,7 +294,7 @@ pub fn periods_json(
 pub fn periods_table(
     family: &str,
     a: &str,
-    c: &crate::periods::Comparison,
+    c: &crate::curve::periods::Comparison,
     digits: u32,
     bits: u32,
     elapsed_s: f64,
@@ -361,7 +361,7 @@ pub fn periods_table(
 /// `regwave attractors --json`.
 pub fn attractors_json(
     family: &str,
-    list: &[crate::attractor::Attractor],
+    list: &[crate::curve::attractor::Attractor],
     digits: u32,
     inputs: Value,
     elapsed_s: f64,
@@ -396,7 +396,7 @@ pub fn attractors_json(
 /// `regwave attractors` as a table.
 pub fn attractors_table(
     family: &str,
-    list: &[crate::attractor::Attractor],
+    list: &[crate::curve::attractor::Attractor],
     digits: u32,
     elapsed_s: f64,
 ) -> String {
@@ -435,7 +435,7 @@ pub fn attractors_table(
 }
 
 /// The JSON record of one audited level (the per-level keys of `audit` and `check`).
-pub fn level_json(l: &crate::audit::LevelAudit) -> Value {
+pub fn level_json(l: &crate::checks::audit::LevelAudit) -> Value {
     let p = &l.profile;
     let spectrum_digits = supported_digits(&l.spectrum_value, l.spectrum_error, 30);
     json!({
@@ -473,7 +473,7 @@ fn round1(x: f64) -> f64 {
 }
 
 /// `regwave audit --json`.
-pub fn audit_json(family: &str, a: &crate::audit::Audit, inputs: Value, elapsed_s: f64) -> Value {
+pub fn audit_json(family: &str, a: &crate::checks::audit::Audit, inputs: Value, elapsed_s: f64) -> Value {
     json!({
         "family": family,
         "levels": a.levels.iter().map(level_json).collect::<Vec<_>>(),
@@ -505,7 +505,7 @@ pub fn audit_json(family: &str, a: &crate::audit::Audit, inputs: Value, elapsed_
 }
 
 /// One row of the per-level table (Markdown).
-fn level_row(l: &crate::audit::LevelAudit) -> String {
+fn level_row(l: &crate::checks::audit::LevelAudit) -> String {
     let p = &l.profile;
     let spectrum_digits = supported_digits(&l.spectrum_value, l.spectrum_error, 30);
     let residual = p
@@ -531,7 +531,7 @@ fn level_row(l: &crate::audit::LevelAudit) -> String {
 }
 
 /// One end's tail zeros as "count, measured spacing constant / predicted".
-fn tail_text(t: &crate::verify::TailZeros) -> String {
+fn tail_text(t: &crate::checks::verify::TailZeros) -> String {
     let measured = t
         .spacing_constant
         .map(|c| format!("{c:.2}"))
@@ -547,7 +547,7 @@ fn tail_text(t: &crate::verify::TailZeros) -> String {
 }
 
 /// The report line on the zeros beyond the turning points.
-fn tail_line(levels: &[crate::audit::LevelAudit]) -> String {
+fn tail_line(levels: &[crate::checks::audit::LevelAudit]) -> String {
     let mut out = String::from(
         "- Beyond the outermost turning points ψ keeps oscillating while it decays, with zeros spaced \
          s ≈ 4π²/(Δm |r|) (Δm the gap of the root exponents at that end: 2 for F0, i.e. 2π²/|r|); on the grid, r → −∞ / r → +∞:",
@@ -575,7 +575,7 @@ single-valuedness = the larger of route dependence and Cauchy defect (0 up to ro
 pub const LEVEL_TABLE_HEADER: &str = "| n | ν | a_n (attractor) | a_n (spectrum) | agree (digits) | residual | ‖ψ‖² − 1 | zeros | decay −∞ / +∞ | ψ vs oscillator | single-valuedness |\n|---:|---:|---|---|---:|---:|---:|---:|---|---:|---:|\n";
 
 /// The per-level table of an audit or check (Markdown).
-pub fn level_table(levels: &[crate::audit::LevelAudit]) -> String {
+pub fn level_table(levels: &[crate::checks::audit::LevelAudit]) -> String {
     let mut out = String::from(LEVEL_TABLE_HEADER);
     for l in levels {
         out.push_str(&level_row(l));
@@ -586,7 +586,7 @@ pub fn level_table(levels: &[crate::audit::LevelAudit]) -> String {
 /// The audit of one family as Markdown (a section of a report; figures are linked by the caller).
 pub fn audit_markdown(
     family: &str,
-    a: &crate::audit::Audit,
+    a: &crate::checks::audit::Audit,
     digits: u32,
     elapsed_s: f64,
 ) -> String {
@@ -668,7 +668,7 @@ pub fn audit_markdown(
 }
 
 /// `regwave check --json`: the per-level keys of the audit plus the one-function checks.
-pub fn check_json(family: &str, c: &crate::audit::Check, inputs: Value, elapsed_s: f64) -> Value {
+pub fn check_json(family: &str, c: &crate::checks::audit::Check, inputs: Value, elapsed_s: f64) -> Value {
     json!({
         "family": family,
         "levels": [level_json(&c.level)],
@@ -686,7 +686,7 @@ pub fn check_json(family: &str, c: &crate::audit::Check, inputs: Value, elapsed_
 }
 
 /// `regwave check` as text.
-pub fn check_text(family: &str, c: &crate::audit::Check, elapsed_s: f64) -> String {
+pub fn check_text(family: &str, c: &crate::checks::audit::Check, elapsed_s: f64) -> String {
     let l = &c.level;
     let p = &l.profile;
     let mut out = format!(
@@ -771,8 +771,8 @@ pub fn check_text(family: &str, c: &crate::audit::Check, elapsed_s: f64) -> Stri
 /// The tour's report (Markdown): what was run, a summary across families, each family's audit,
 /// and the high-precision eigenfunction. `high` = (family, level, digits, grid).
 pub fn tour_markdown(
-    audits: &[(&str, &crate::audit::Audit, f64)],
-    high_profile: &crate::profile::Profile,
+    audits: &[(&str, &crate::checks::audit::Audit, f64)],
+    high_profile: &crate::eigenfunction::profile::Profile,
     high: (&str, usize, u32, &str),
     high_elapsed_s: f64,
     elapsed_s: f64,

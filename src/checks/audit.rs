@@ -3,22 +3,22 @@
 //! eigenfunction with all the checks of MATH.md §7.
 //!
 //! # Method
-//! 1. The independent spectrum ([`crate::spectrum`]) for levels 0..K+1; the window is
+//! 1. The independent spectrum ([`crate::operator::spectrum`]) for levels 0..K+1; the window is
 //!    (threshold, √(E_K E_{K+1})], so that it holds the eigenvalues of the audited levels and no
 //!    other.
 //! 2. ν(a) is scanned over the window ([`verify::nu_scan`]); every integer crossing is an attractor
 //!    modulus. Those with ν = n + 1, n ∈ 0..K, are the attractor moduli of the levels
-//!    ([`crate::attractor`], to the requested digits); any other crossing is refined in double
+//!    ([`crate::curve::attractor`], to the requested digits); any other crossing is refined in double
 //!    precision and must match an eigenvalue too.
 //! 3. Matching, both ways: an attractor modulus a and an eigenvalue E match when
 //!    |a − E|/E < max([`MATCH_FLOOR`], 100 × the spectrum's relative error estimate); an attractor
 //!    modulus without an eigenvalue or an eigenvalue without an attractor modulus is listed in
 //!    `unmatched`, with its nearest partner and gap. A match between different level labels is
 //!    listed too.
-//! 4. Per level: the profile with its eigen-equation residual ([`crate::profile`]), the norm of the
+//! 4. Per level: the profile with its eigen-equation residual ([`crate::eigenfunction::profile`]), the norm of the
 //!    written values by an independent quadrature, zeros inside the outermost turning points,
 //!    decay rates, agreement with the harmonic-oscillator eigenvector, route dependence and
-//!    Cauchy defect ([`crate::verify`]); levels run in parallel.
+//!    Cauchy defect ([`crate::checks::verify`]); levels run in parallel.
 //! 5. Orthogonality of the audited levels, series-vs-path agreement of Ω_α and R_α at the largest
 //!    audited modulus, and the negative control: route dependence and Cauchy defect at the level-0
 //!    modulus perturbed by [`AuditOptions::perturbation`] (relative).
@@ -35,15 +35,15 @@
 //! MATH.md §3–7; attractor moduli are eigenvalues (proven), every eigenvalue an attractor modulus
 //! (conjectured): the two directions are checked separately for that reason.
 
-use crate::attractor::{self, AttractorError, LEVEL_OFFSET};
-use crate::eigenfn::{EigenError, Eigenfunction};
-use crate::laurent::Laurent;
-use crate::numeric::CNum;
-use crate::periods;
+use crate::curve::attractor::{self, AttractorError, LEVEL_OFFSET};
+use crate::eigenfunction::construction::{EigenError, Eigenfunction};
+use crate::curve::laurent::Laurent;
+use crate::numerics::complex::CNum;
+use crate::curve::periods;
 use crate::precision::{bits_for_digits, digits_for_bits, with_guard};
-use crate::profile::{self, Profile, ProfileError, ProfileOptions, Target, BASE_RE};
-use crate::spectrum::{self, SpectrumError, SpectrumOptions};
-use crate::verify::{self, NuScan, VerifyError, Zeros};
+use crate::eigenfunction::profile::{self, Profile, ProfileError, ProfileOptions, Target, BASE_RE};
+use crate::operator::spectrum::{self, SpectrumError, SpectrumOptions};
+use crate::checks::verify::{self, NuScan, VerifyError, Zeros};
 use num_complex::Complex64;
 use rayon::prelude::*;
 use rug::Float;
@@ -70,7 +70,7 @@ pub enum AuditError {
     #[error(transparent)]
     Periods(#[from] periods::PeriodsError),
     #[error(transparent)]
-    ConstantTerms(#[from] crate::recurrence::RecurrenceError),
+    ConstantTerms(#[from] crate::curve::recurrence::RecurrenceError),
 }
 
 /// What to audit.

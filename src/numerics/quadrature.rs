@@ -20,7 +20,7 @@
 //! # References
 //! Handbook of Mathematical Functions (1964), 25.4.29 and 22.7.10.
 
-use crate::numeric::CNum;
+use crate::numerics::complex::CNum;
 use rug::float::Constant;
 use rug::{Assign, Float};
 use std::collections::HashMap;

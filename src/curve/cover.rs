@@ -53,11 +53,11 @@
 //!
 //! # References
 //! Aberth–Ehrlich iteration: "Iteration methods for finding all zeros of a polynomial
-//! simultaneously", Math. Comp. 27 (1973) 339–344. Gauss–Legendre: see [`crate::quad`].
+//! simultaneously", Math. Comp. 27 (1973) 339–344. Gauss–Legendre: see [`crate::numerics::quadrature`].
 
-use crate::laurent::{Laurent, StripParts, Univariate};
-use crate::numeric::CNum;
-use crate::quad;
+use crate::curve::laurent::{Laurent, StripParts, Univariate};
+use crate::numerics::complex::CNum;
+use crate::numerics::quadrature;
 use thiserror::Error;
 
 /// Step factor κ: step ≤ κ · distance to the nearest singular point (ρ ≥ 5.8, see above).
@@ -1023,7 +1023,7 @@ pub fn continue_sheet<T: CNum>(
                     * 4;
             let nodes = nodes.clamp(8, march.nodes.div_ceil(4) * 4);
             let rule = rules[nodes]
-                .get_or_insert_with(|| quad::rule_for(nodes, &start.z))
+                .get_or_insert_with(|| quadrature::rule_for(nodes, &start.z))
                 .clone();
             let mut z_prev = here.z.clone();
             let mut sum_omega = start.z.int_like(0);
@@ -1277,7 +1277,7 @@ mod tests {
 
     /// F0* (the square with vertices (±1, ±1)): the two roots merge as x → 0 and x → ∞.
     fn f0_dual() -> Laurent {
-        Laurent::tempered(&crate::catalogue::by_id("F0*").unwrap().polygon())
+        Laurent::tempered(&crate::lattice::catalogue::by_id("F0*").unwrap().polygon())
     }
 
     #[test]

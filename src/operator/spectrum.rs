@@ -43,7 +43,7 @@
 //! higher genus", Annales Henri Poincaré 18 (2017), arXiv:1506.09176. Cholesky and subspace
 //! iteration: "Matrix Computations", 4th ed. (2013), §4.2 and §8.2.
 
-use crate::laurent::Laurent;
+use crate::curve::laurent::Laurent;
 use crate::precision::{bits_for_digits, with_guard};
 use num_complex::Complex64;
 use rayon::prelude::*;

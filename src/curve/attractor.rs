@@ -12,7 +12,7 @@
 //! which the two solves agree (capped at the digits requested).
 //!
 //! # Level labels
-//! With the β rule of [`crate::periods`], **ν(a_n) = n + 1 for all 15 strip families**
+//! With the β rule of [`crate::curve::periods`], **ν(a_n) = n + 1 for all 15 strip families**
 //! ([`LEVEL_OFFSET`]): established against the independent harmonic-oscillator spectrum for
 //! levels 0..5 of every family (`tests/attractor.rs`); MATH.md states it for F0, P2, dP3.
 //!
@@ -28,17 +28,17 @@
 //! perturbative quantization volumes, "Topological strings from quantum mechanics",
 //! arXiv:1410.3382 (2014).
 
-use crate::laurent::Laurent;
-use crate::numeric::CNum;
-use crate::periods::{self, CyclePeriods, PeriodsError};
+use crate::curve::laurent::Laurent;
+use crate::numerics::complex::CNum;
+use crate::curve::periods::{self, CyclePeriods, PeriodsError};
 use crate::precision::{bits_for_digits, digits_for_bits, with_guard};
-use crate::recurrence::RecurrenceError;
+use crate::curve::recurrence::RecurrenceError;
 use num_complex::Complex64;
 use rayon::prelude::*;
 use rug::{Complex, Float, Integer};
 use thiserror::Error;
 
-/// ν(a_n) = n + LEVEL_OFFSET for every strip family with the β rule of [`crate::periods`].
+/// ν(a_n) = n + LEVEL_OFFSET for every strip family with the β rule of [`crate::curve::periods`].
 pub const LEVEL_OFFSET: i64 = 1;
 
 /// Why an attractor modulus could not be found.

@@ -22,7 +22,7 @@
 //! - `τ = Ω_β / Ω_α`, `ν(a) = (R_β − τ R_α) / (2πi)²`.
 //!
 //! # Accuracy
-//! Series: rigorous tail bound from `[φⁿ]₀ ≤ φ(1,1)ⁿ`. Paths: see [`crate::cover`]. The
+//! Series: rigorous tail bound from `[φⁿ]₀ ≤ φ(1,1)ⁿ`. Paths: see [`crate::curve::cover`]. The
 //! series/path agreement is tested at ≥ 30 digits for every family.
 //!
 //! # Errors
@@ -32,11 +32,11 @@
 //! "Modular Mahler measures I" (1999) for R_α as a Mahler measure; the Beilinson regulator and
 //! its periods: "Mahler's measure and the dilogarithm (I)", Canad. J. Math. 54 (2002).
 
-use crate::cover::{
+use crate::curve::cover::{
     self, continue_along, CoverError, Curve, March, PathIntegrals, Point, Singular, SingularKind,
 };
-use crate::laurent::Laurent;
-use crate::numeric::CNum;
+use crate::curve::laurent::Laurent;
+use crate::numerics::complex::CNum;
 use rug::{Complex, Float, Integer};
 use thiserror::Error;
 
@@ -158,7 +158,7 @@ pub fn alpha_offset<T: CNum>(curve: &Curve<T>) -> Result<f64, PeriodsError> {
 /// Ω_α and R_α by path integration.
 ///
 /// # Errors
-/// See [`crate::cover::continue_along`].
+/// See [`crate::curve::cover::continue_along`].
 pub fn alpha_path<T: CNum>(
     curve: &Curve<T>,
     singular: &[Singular<T>],
@@ -350,7 +350,7 @@ pub fn stadium(a: [f64; 2], b: [f64; 2], delta: f64) -> Vec<[f64; 2]> {
 ///
 /// # Errors
 /// [`PeriodsError::BetaNotClosed`] if the loop does not return to its sheet; see
-/// [`crate::cover::continue_along`].
+/// [`crate::curve::cover::continue_along`].
 pub fn loop_periods<T: CNum>(
     curve: &Curve<T>,
     singular: &[Singular<T>],
@@ -378,7 +378,7 @@ pub fn loop_periods<T: CNum>(
 /// Ω_β and R_β on the loop of [`beta_loop`], oriented so that Im(Ω_β/Ω_α) > 0.
 ///
 /// # Errors
-/// [`PeriodsError::BetaNotClosed`], and see [`crate::cover::continue_along`].
+/// [`PeriodsError::BetaNotClosed`], and see [`crate::curve::cover::continue_along`].
 pub fn beta_path<T: CNum>(
     curve: &Curve<T>,
     singular: &[Singular<T>],

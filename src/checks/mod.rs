@@ -1,0 +1,4 @@
+//! Verification: the checks every eigenfunction carries, and audits of whole families.
+
+pub mod audit;
+pub mod verify;

@@ -1,0 +1,9 @@
+//! The family of elliptic curves `φ(x, y) + a = 0`: the tempered Laurent polynomial, its
+//! constant terms, the double cover over the z-plane, periods and regulator periods, and the
+//! attractor moduli.
+
+pub mod attractor;
+pub mod cover;
+pub mod laurent;
+pub mod periods;
+pub mod recurrence;

@@ -1,0 +1,3 @@
+//! Requests read from text: families, vertices, coefficients, levels, moduli.
+
+pub mod selection;

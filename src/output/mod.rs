@@ -1,0 +1,5 @@
+//! Documents, tables, reports and figures (pure formatting).
+
+pub mod figures;
+pub mod plot;
+pub mod report;
