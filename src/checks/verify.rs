@@ -52,8 +52,8 @@
 
 use crate::curve::attractor::{AttractorError, Family};
 use crate::curve::cover::SingularKind;
-use crate::eigenfunction::construction::{self, EigenError, Eigenfunction, Normalization};
 use crate::curve::laurent::Laurent;
+use crate::eigenfunction::construction::{self, EigenError, Eigenfunction, Normalization};
 use crate::numerics::complex::CNum;
 use crate::operator::spectrum::Spectrum;
 use num_complex::Complex64;
@@ -244,7 +244,8 @@ pub fn zeros_inside<T: CNum>(
         .zip(&grid)
         .map(|(v, &r)| {
             let v = v.map(|v| v.to_c64()).unwrap_or_default();
-            rule.map(|k| v * construction::reality_factor(k, r)).unwrap_or(v)
+            rule.map(|k| v * construction::reality_factor(k, r))
+                .unwrap_or(v)
         })
         .collect();
     let (method, positions) = match rule {
@@ -506,7 +507,8 @@ pub fn tail_zeros(
         .map(|(r, v)| {
             (
                 r,
-                rule.map(|k| v * construction::reality_factor(k, r)).unwrap_or(v),
+                rule.map(|k| v * construction::reality_factor(k, r))
+                    .unwrap_or(v),
             )
         })
         .collect();

@@ -29,10 +29,10 @@
 //! arXiv:1410.3382 (2014).
 
 use crate::curve::laurent::Laurent;
-use crate::numerics::complex::CNum;
 use crate::curve::periods::{self, CyclePeriods, PeriodsError};
-use crate::precision::{bits_for_digits, digits_for_bits, with_guard};
 use crate::curve::recurrence::RecurrenceError;
+use crate::numerics::complex::CNum;
+use crate::precision::{bits_for_digits, digits_for_bits, with_guard};
 use num_complex::Complex64;
 use rayon::prelude::*;
 use rug::{Complex, Float, Integer};

@@ -25,9 +25,9 @@
 //! Canad. J. Math. 54 (2002); "Modular Mahler measures I", Topics in Number Theory (1999).
 //! See `docs/REFERENCES.md`.
 
-use crate::numerics::complex::CNum;
-use crate::lattice::polygon::{LatticePoint, Polygon};
 use crate::curve::recurrence::{self, RecurrenceError, Term};
+use crate::lattice::polygon::{LatticePoint, Polygon};
+use crate::numerics::complex::CNum;
 use rug::Integer;
 use std::fmt;
 use thiserror::Error;

@@ -3,6 +3,7 @@
 //! attractor moduli.
 
 pub mod attractor;
+pub mod continuation;
 pub mod cover;
 pub mod laurent;
 pub mod periods;

@@ -32,9 +32,8 @@
 //! "Modular Mahler measures I" (1999) for R_α as a Mahler measure; the Beilinson regulator and
 //! its periods: "Mahler's measure and the dilogarithm (I)", Canad. J. Math. 54 (2002).
 
-use crate::curve::cover::{
-    self, continue_along, CoverError, Curve, March, PathIntegrals, Point, Singular, SingularKind,
-};
+use crate::curve::continuation::{continue_along, March, PathIntegrals};
+use crate::curve::cover::{CoverError, Curve, Point, Singular, SingularKind};
 use crate::curve::laurent::Laurent;
 use crate::numerics::complex::CNum;
 use rug::{Complex, Float, Integer};
@@ -158,7 +157,7 @@ pub fn alpha_offset<T: CNum>(curve: &Curve<T>) -> Result<f64, PeriodsError> {
 /// Ω_α and R_α by path integration.
 ///
 /// # Errors
-/// See [`crate::curve::cover::continue_along`].
+/// See [`crate::curve::continuation::continue_along`].
 pub fn alpha_path<T: CNum>(
     curve: &Curve<T>,
     singular: &[Singular<T>],
@@ -350,7 +349,7 @@ pub fn stadium(a: [f64; 2], b: [f64; 2], delta: f64) -> Vec<[f64; 2]> {
 ///
 /// # Errors
 /// [`PeriodsError::BetaNotClosed`] if the loop does not return to its sheet; see
-/// [`crate::curve::cover::continue_along`].
+/// [`crate::curve::continuation::continue_along`].
 pub fn loop_periods<T: CNum>(
     curve: &Curve<T>,
     singular: &[Singular<T>],
@@ -378,7 +377,7 @@ pub fn loop_periods<T: CNum>(
 /// Ω_β and R_β on the loop of [`beta_loop`], oriented so that Im(Ω_β/Ω_α) > 0.
 ///
 /// # Errors
-/// [`PeriodsError::BetaNotClosed`], and see [`crate::curve::cover::continue_along`].
+/// [`PeriodsError::BetaNotClosed`], and see [`crate::curve::continuation::continue_along`].
 pub fn beta_path<T: CNum>(
     curve: &Curve<T>,
     singular: &[Singular<T>],
@@ -514,9 +513,6 @@ pub fn compare(
         agreement_digits,
     })
 }
-
-/// Re-exported so callers need not import the cover module for settings.
-pub use cover::March as PathSettings;
 
 #[cfg(test)]
 mod tests {

@@ -17,7 +17,7 @@
 //!   singular point in the way); both sheets follow the same z-route. Only the first sheet is
 //!   continued along it: on the other sheet ιy = C/(A y) and D changes sign, so its exponent
 //!   integrand is `z d log(C/A) − (z d log y − λω)` node by node, and the continuation carries
-//!   `∫ z d log(C/A)` ([`crate::curve::cover::PathIntegrals::twist`]) beside the rest (half the work;
+//!   `∫ z d log(C/A)` ([`crate::curve::continuation::PathIntegrals::twist`]) beside the rest (half the work;
 //!   measured: the same residuals to the last digit shown, F0 level 5 at 20 and 40 digits).
 //!
 //! # Accuracy
@@ -40,12 +40,11 @@
 //! # References
 //! MATH.md §5 (the construction, and the checks it was confirmed with).
 
-use crate::curve::cover::{
-    continue_along, continue_sheet, CoverError, Curve, March, Point, Singular, SingularKind,
-};
+use crate::curve::continuation::{continue_along, continue_sheet, March, PathIntegrals};
+use crate::curve::cover::{CoverError, Curve, Point, Singular, SingularKind};
 use crate::curve::laurent::Laurent;
-use crate::numerics::complex::CNum;
 use crate::curve::periods::{self, PeriodsError};
+use crate::numerics::complex::CNum;
 use thiserror::Error;
 
 /// Distance to a branch point or puncture below which ψ is evaluated by the mean-value formula.
@@ -159,13 +158,13 @@ impl<T: CNum> Eigenfunction<T> {
     }
 
     /// The exponent integral `∫ (z d log y − λ ω)` of a path piece.
-    fn exponent(&self, ints: &crate::curve::cover::PathIntegrals<T>) -> T {
+    fn exponent(&self, ints: &PathIntegrals<T>) -> T {
         ints.eta.clone() - self.lambda.clone() * ints.omega.clone()
     }
 
     /// The exponent integral of the same z-path on the other sheet: `twist − exponent`
-    /// ([`crate::curve::cover::PathIntegrals::twist`]), so one continuation serves both sheets.
-    fn other_exponent(&self, ints: &crate::curve::cover::PathIntegrals<T>) -> T {
+    /// ([`crate::curve::continuation::PathIntegrals::twist`]), so one continuation serves both sheets.
+    fn other_exponent(&self, ints: &PathIntegrals<T>) -> T {
         ints.twist.clone() - self.exponent(ints)
     }
 
@@ -230,7 +229,7 @@ impl<T: CNum> Eigenfunction<T> {
     /// χ on both sheets and D at z, along the route spine → vertical.
     ///
     /// # Errors
-    /// See [`crate::curve::cover::continue_along`].
+    /// See [`crate::curve::continuation::continue_along`].
     pub fn sheets_at(&self, z: &T) -> Result<SheetValues<T>, EigenError> {
         let prec = z.prec();
         let (r, im) = (z.re_f64(), z.im_f64());
@@ -245,7 +244,7 @@ impl<T: CNum> Eigenfunction<T> {
     /// χ on both sheets and D at the end of an explicit route (starting at the base point).
     ///
     /// # Errors
-    /// See [`crate::curve::cover::continue_along`].
+    /// See [`crate::curve::continuation::continue_along`].
     pub fn sheets_along(&self, path: &[T]) -> Result<SheetValues<T>, EigenError> {
         let s1 = self.curve.sheet_point(&self.base)?;
         let (p1, i1) = continue_sheet(&self.curve, &self.singular, &s1, path, &self.march)?;
@@ -265,7 +264,7 @@ impl<T: CNum> Eigenfunction<T> {
     /// swap.
     ///
     /// # Errors
-    /// See [`crate::curve::cover::continue_along`].
+    /// See [`crate::curve::continuation::continue_along`].
     pub fn psi_along(&self, path: &[T]) -> Result<Vec<T>, EigenError> {
         let like = &self.lambda;
         let mut a1 = self.curve.sheet_point(&self.base)?;
@@ -333,7 +332,7 @@ impl<T: CNum> Eigenfunction<T> {
     /// 1e-9 of a multiple of 2π means exactly that multiple, at the working precision.
     ///
     /// # Errors
-    /// See [`crate::curve::cover::continue_along`].
+    /// See [`crate::curve::continuation::continue_along`].
     pub fn psi_on_line(&self, grid: &[f64], im: f64) -> Result<Vec<Option<T>>, EigenError> {
         Ok(self.psi_on_line_with_loss(grid, im)?.0)
     }

@@ -34,14 +34,15 @@
 //! MATH.md §5–7.
 
 use crate::curve::attractor::{self, AttractorError};
-use crate::curve::cover::{CoverError, Curve, March};
-use crate::eigenfunction::construction::{self, EigenError, Eigenfunction, Normalization, Pole};
+use crate::curve::continuation::March;
+use crate::curve::cover::{CoverError, Curve};
 use crate::curve::laurent::{Laurent, LaurentError};
+use crate::curve::periods::{self, PeriodsError};
+use crate::eigenfunction::construction::{self, EigenError, Eigenfunction, Normalization, Pole};
+use crate::input::selection::{self, SelectionError};
 use crate::numerics::complex::CNum;
 use crate::operator::quantum_curve::QuantumCurve;
-use crate::curve::periods::{self, PeriodsError};
 use crate::precision::{bits_for_digits, digits_for_bits, with_guard, MAX_DIGITS};
-use crate::input::selection::{self, SelectionError};
 use num_complex::Complex64;
 use rug::Float;
 use thiserror::Error;

@@ -11,8 +11,8 @@
 //! [`SelectionError`], wrapping the polygon, catalogue and coefficient errors, plus malformed
 //! level ranges.
 
-use crate::lattice::catalogue::{self, CatalogueError, Family};
 use crate::curve::laurent::{self, Laurent, LaurentError};
+use crate::lattice::catalogue::{self, CatalogueError, Family};
 use crate::lattice::polygon::{self, Mat2, Polygon, PolygonError};
 use std::ops::RangeInclusive;
 use thiserror::Error;

@@ -1,5 +1,8 @@
 //! General numerical tools the mathematics is built on: one complex-number trait over
-//! `Complex64` and MPFR, Gauss–Legendre quadrature at any precision.
+//! `Complex64` and MPFR, Gauss–Legendre quadrature at any precision, polynomial
+//! roots, Laurent polynomials with exact coefficient arithmetic.
 
 pub mod complex;
+pub mod laurent_poly;
 pub mod quadrature;
+pub mod roots;

@@ -27,8 +27,8 @@
 //! (the operators); the ħ = 2π shift form as in MATH.md §2.
 
 use crate::curve::laurent::{Laurent, LaurentError};
-use crate::numerics::complex::CNum;
 use crate::curve::recurrence::Term;
+use crate::numerics::complex::CNum;
 
 /// The three shift coefficients at one r: `(Ôψ)(r) = down·ψ(r − 2πi) + centre·ψ(r) + up·ψ(r + 2πi)`.
 #[derive(Debug, Clone)]

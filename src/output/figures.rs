@@ -13,10 +13,10 @@
 
 use crate::checks::audit::Audit;
 use crate::eigenfunction::construction;
+use crate::eigenfunction::profile::Profile;
 use crate::output::plot::{
     self, AgreementBars, NuCurve, PlotError, ProfileSeries, ResidualSeries, StripMap,
 };
-use crate::eigenfunction::profile::Profile;
 use num_complex::Complex64;
 
 /// One figure: its file stem, SVG document and a caption for reports.

@@ -5,8 +5,8 @@
 //! `precision_bits` (where a computation ran) and `elapsed_s`. High-precision numbers are
 //! decimal strings holding only the digits the computation supports.
 
-use crate::lattice::catalogue::Family;
 use crate::curve::laurent::Laurent;
+use crate::lattice::catalogue::Family;
 use crate::operator::spectrum::Spectrum;
 use crate::TOOL_VERSION;
 use rug::Float;
@@ -473,7 +473,12 @@ fn round1(x: f64) -> f64 {
 }
 
 /// `regwave audit --json`.
-pub fn audit_json(family: &str, a: &crate::checks::audit::Audit, inputs: Value, elapsed_s: f64) -> Value {
+pub fn audit_json(
+    family: &str,
+    a: &crate::checks::audit::Audit,
+    inputs: Value,
+    elapsed_s: f64,
+) -> Value {
     json!({
         "family": family,
         "levels": a.levels.iter().map(level_json).collect::<Vec<_>>(),
@@ -668,7 +673,12 @@ pub fn audit_markdown(
 }
 
 /// `regwave check --json`: the per-level keys of the audit plus the one-function checks.
-pub fn check_json(family: &str, c: &crate::checks::audit::Check, inputs: Value, elapsed_s: f64) -> Value {
+pub fn check_json(
+    family: &str,
+    c: &crate::checks::audit::Check,
+    inputs: Value,
+    elapsed_s: f64,
+) -> Value {
     json!({
         "family": family,
         "levels": [level_json(&c.level)],
