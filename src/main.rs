@@ -6,8 +6,8 @@ use num_complex::Complex64;
 use rayon::prelude::*;
 use regwave::checks::audit::{self, Audit, AuditError, AuditOptions, CheckOptions};
 use regwave::curve::{attractor, periods};
-use regwave::eigenfunction::construction;
 use regwave::eigenfunction::profile::{self, Profile, ProfileError, ProfileOptions, Target};
+use regwave::input::grid;
 use regwave::input::selection::{self, Selection, SelectionError};
 use regwave::lattice::catalogue;
 use regwave::operator::spectrum::{self, SpectrumError, SpectrumOptions};
@@ -480,7 +480,7 @@ fn build_command(args: &BuildArgs) -> Result<(), Failure> {
     let start = Instant::now();
     check_digits(args.digits)?;
     let sel = select(&args.family)?;
-    let grid = construction::Grid::parse(&args.grid).map_err(Failure::input)?;
+    let grid = grid::Grid::parse(&args.grid).map_err(Failure::input)?;
     let target = target_of(args.target.level, &args.target.modulus)?;
     // Refuse to overwrite unless --force, before computing anything expensive.
     let files: Vec<&str> = if args.strip {
@@ -607,7 +607,7 @@ fn audit_command(args: &AuditArgs) -> Result<(), Failure> {
     check_digits(args.digits)?;
     let sel = select(&args.family)?;
     let levels = selection::parse_levels(&args.levels)?;
-    let grid = construction::Grid::parse(&args.grid).map_err(Failure::input)?;
+    let grid = grid::Grid::parse(&args.grid).map_err(Failure::input)?;
     let out = args
         .out
         .clone()
@@ -734,7 +734,7 @@ fn check_command(args: &CheckArgs) -> Result<(), Failure> {
     let start = Instant::now();
     check_digits(args.digits)?;
     let sel = select(&args.family)?;
-    let grid = construction::Grid::parse(&args.grid).map_err(Failure::input)?;
+    let grid = grid::Grid::parse(&args.grid).map_err(Failure::input)?;
     let target = target_of(args.target.level, &args.target.modulus)?;
     let options = CheckOptions {
         grid: grid.values(),
@@ -820,7 +820,7 @@ const TOUR_HIGH: (&str, usize, u32, &str) = ("F0", 2, 40, "-10:10:201");
 fn tour(out: &Path, png: bool) -> Result<(), Failure> {
     let start = Instant::now();
     ensure_writable(out)?;
-    let grid = construction::Grid::parse(TOUR_GRID)
+    let grid = grid::Grid::parse(TOUR_GRID)
         .map_err(Failure::input)?
         .values();
     let selections: Vec<Selection> = TOUR_FAMILIES
@@ -846,7 +846,7 @@ fn tour(out: &Path, png: bool) -> Result<(), Failure> {
         &high_sel.laurent,
         &Target::Level(TOUR_HIGH.1),
         &ProfileOptions {
-            grid: construction::Grid::parse(TOUR_HIGH.3)
+            grid: grid::Grid::parse(TOUR_HIGH.3)
                 .map_err(Failure::input)?
                 .values(),
             strip: true,

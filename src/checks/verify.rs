@@ -53,7 +53,9 @@
 use crate::curve::attractor::{AttractorError, Family};
 use crate::curve::cover::SingularKind;
 use crate::curve::laurent::Laurent;
-use crate::eigenfunction::construction::{self, EigenError, Eigenfunction, Normalization};
+use crate::eigenfunction::construction::{self, EigenError, Eigenfunction};
+use crate::eigenfunction::normalization::Normalization;
+use crate::eigenfunction::phase;
 use crate::numerics::complex::CNum;
 use crate::operator::spectrum::Spectrum;
 use num_complex::Complex64;
@@ -244,8 +246,7 @@ pub fn zeros_inside<T: CNum>(
         .zip(&grid)
         .map(|(v, &r)| {
             let v = v.map(|v| v.to_c64()).unwrap_or_default();
-            rule.map(|k| v * construction::reality_factor(k, r))
-                .unwrap_or(v)
+            rule.map(|k| v * phase::reality_factor(k, r)).unwrap_or(v)
         })
         .collect();
     let (method, positions) = match rule {
@@ -507,8 +508,7 @@ pub fn tail_zeros(
         .map(|(r, v)| {
             (
                 r,
-                rule.map(|k| v * construction::reality_factor(k, r))
-                    .unwrap_or(v),
+                rule.map(|k| v * phase::reality_factor(k, r)).unwrap_or(v),
             )
         })
         .collect();

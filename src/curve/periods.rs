@@ -36,6 +36,7 @@ use crate::curve::continuation::{continue_along, March, PathIntegrals};
 use crate::curve::cover::{CoverError, Curve, Point, Singular, SingularKind};
 use crate::curve::laurent::Laurent;
 use crate::numerics::complex::CNum;
+use crate::numerics::plane::segment_distance;
 use rug::{Complex, Float, Integer};
 use thiserror::Error;
 
@@ -200,15 +201,6 @@ pub struct BetaLoop {
     pub polyline: Vec<[f64; 2]>,
     /// Whether a puncture lies inside the loop.
     pub encloses_puncture: bool,
-}
-
-/// Distance from p to the segment [a, b].
-fn segment_distance(p: [f64; 2], a: [f64; 2], b: [f64; 2]) -> f64 {
-    let d = [b[0] - a[0], b[1] - a[1]];
-    let len2 = d[0] * d[0] + d[1] * d[1];
-    let t = (((p[0] - a[0]) * d[0] + (p[1] - a[1]) * d[1]) / len2).clamp(0.0, 1.0);
-    let q = [a[0] + t * d[0] - p[0], a[1] + t * d[1] - p[1]];
-    (q[0] * q[0] + q[1] * q[1]).sqrt()
 }
 
 /// The β loop of the module's rule.

@@ -20,7 +20,7 @@
 //!    A or C vanishes at x = −1) the products A·ψ(r − 2πi), C·ψ(r + 2πi) are finite and are
 //!    evaluated as limits: by the mean-value formula of the analytic product on a circle around r.
 //! 6. Unit L² norm on R ([`Eigenfunction::normalization`]) and the phase rule: with a reality rule
-//!    k ([`construction::reality_rule`]) e^{−ikr²/(8π)}ψ is made real and positive where |ψ| is largest
+//!    k ([`phase::reality_rule`]) e^{−ikr²/(8π)}ψ is made real and positive where |ψ| is largest
 //!    on the grid; otherwise ψ itself is made real and positive there.
 //!
 //! # Accuracy
@@ -33,12 +33,16 @@
 //! # References
 //! MATH.md §5–7.
 
+use crate::checks::residual::{eigen_equation_residual, Residual};
 use crate::curve::attractor::{self, AttractorError};
 use crate::curve::continuation::March;
 use crate::curve::cover::{CoverError, Curve};
 use crate::curve::laurent::{Laurent, LaurentError};
 use crate::curve::periods::{self, PeriodsError};
-use crate::eigenfunction::construction::{self, EigenError, Eigenfunction, Normalization, Pole};
+use crate::eigenfunction::construction::{EigenError, Eigenfunction};
+use crate::eigenfunction::normalization::Normalization;
+use crate::eigenfunction::phase;
+use crate::eigenfunction::poles::{self, Pole};
 use crate::input::selection::{self, SelectionError};
 use crate::numerics::complex::CNum;
 use crate::operator::quantum_curve::QuantumCurve;
@@ -114,18 +118,6 @@ pub struct ProfileOptions {
     pub digits: u32,
     /// Build at a modulus that is not an attractor modulus.
     pub allow_non_attractor: bool,
-}
-
-/// The eigen-equation residual on the grid.
-#[derive(Debug, Clone)]
-pub struct Residual {
-    /// |A ψ(r − 2πi) + C ψ(r + 2πi) − (B + a) ψ(r)| / max|ψ| per grid point.
-    pub per_point: Vec<Option<f64>>,
-    pub max: f64,
-    /// Root mean square over the points where it was formed.
-    pub rms: f64,
-    /// Grid points on a pole where a product was evaluated as a limit.
-    pub pole_limits: usize,
 }
 
 /// The sampled eigenfunction with everything needed to reproduce and judge it.
@@ -406,11 +398,13 @@ fn sample<T: CNum + Send + Sync>(
     let normalization = normalization(laurent, &eig, &a, digits)?;
     let raw = lines(&eig, &options.grid, options.strip)?;
     let residual = if options.strip {
-        Some(residual(
+        Some(eigen_equation_residual(
             &QuantumCurve::new(laurent)?,
             &eig,
             &options.grid,
-            &raw,
+            &raw.main,
+            &raw.up,
+            &raw.down,
         )?)
     } else {
         None
@@ -423,9 +417,9 @@ fn sample<T: CNum + Send + Sync>(
     let mut main = round(&raw.main);
     let mut up = round(&raw.up);
     let mut down = round(&raw.down);
-    let rule = construction::reality_rule(laurent);
+    let rule = phase::reality_rule(laurent);
     let fixed = rule.and_then(|k| {
-        fix_phase(
+        phase::fix_phase(
             k,
             &options.grid,
             &mut main,
@@ -454,7 +448,7 @@ fn sample<T: CNum + Send + Sync>(
         up,
         down,
         residual,
-        poles: construction::strip_poles(eig.curve()),
+        poles: poles::strip_poles(eig.curve()),
         branch_points,
         rule,
         reality_defect,
@@ -483,38 +477,6 @@ fn normalization<T: CNum + Send + Sync>(
     Ok(coarse.normalization(NORM_STEP)?)
 }
 
-/// Phase rule with a reality rule k: e^{−ikr²/(8π)}ψ real and positive at the grid point of
-/// largest |ψ| (the normalization already made ψ itself positive at the peak on R); returns the
-/// largest imaginary part left, relative to that peak, and the phase turned.
-fn fix_phase(
-    k: i64,
-    grid: &[f64],
-    main: &mut [Option<Complex64>],
-    others: &mut [&mut [Option<Complex64>]],
-) -> Option<(f64, Complex64)> {
-    let g: Vec<Complex64> = main
-        .iter()
-        .zip(grid)
-        .filter_map(|(v, &r)| v.map(|v| v * construction::reality_factor(k, r)))
-        .filter(|v| v.is_finite())
-        .collect();
-    let peak = g
-        .iter()
-        .copied()
-        .max_by(|x, y| x.norm().total_cmp(&y.norm()))?;
-    let turn = (peak / peak.norm()).conj();
-    for v in main.iter_mut().flatten() {
-        *v *= turn;
-    }
-    for line in others.iter_mut() {
-        for v in line.iter_mut().flatten() {
-            *v *= turn;
-        }
-    }
-    let defect = g.iter().map(|v| (v * turn).im.abs()).fold(0.0, f64::max) / peak.norm();
-    Some((defect, turn))
-}
-
 /// ψ of a profile (its normalization and phase) on the lines Im r = im[j] at the real parts `re`
 /// (values[j][k] at re[k] + i·im[j]; None on a pole), in double precision, the lines in
 /// parallel: for pictures of |ψ| and arg ψ over the strip, not for digits (at high levels the
@@ -540,133 +502,4 @@ pub fn strip_map(
                 .collect())
         })
         .collect()
-}
-
-/// The residual from the three lines, at the working precision; products at poles as limits.
-fn residual<T: CNum>(
-    q: &QuantumCurve,
-    eig: &Eigenfunction<T>,
-    grid: &[f64],
-    raw: &Lines<T>,
-) -> Result<Residual, ProfileError> {
-    let prec = eig.lambda.prec();
-    let scale = raw
-        .main
-        .iter()
-        .flatten()
-        .map(|v| v.abs_f64())
-        .fold(0.0, f64::max);
-    let a = eig.curve().modulus().clone();
-    let mut per_point = Vec::with_capacity(grid.len());
-    let mut pole_limits = 0;
-    for (k, &r) in grid.iter().enumerate() {
-        let Some(m) = &raw.main[k] else {
-            per_point.push(None);
-            continue;
-        };
-        let z = T::from_f64s(r, 0.0, prec);
-        let c = q.coefficients(&z);
-        let down = match &raw.down[k] {
-            Some(d) => c.down * d.clone(),
-            None => {
-                pole_limits += 1;
-                pole_product(eig, q, &z, -1)?
-            }
-        };
-        let up = match &raw.up[k] {
-            Some(u) => c.up * u.clone(),
-            None => {
-                pole_limits += 1;
-                pole_product(eig, q, &z, 1)?
-            }
-        };
-        let res = down + (c.centre - a.clone()) * m.clone() + up;
-        per_point.push(Some(res.abs_f64() / scale));
-    }
-    let defined: Vec<f64> = per_point.iter().flatten().copied().collect();
-    let max = defined.iter().copied().fold(0.0, f64::max);
-    let rms = if defined.is_empty() {
-        f64::NAN
-    } else {
-        (defined.iter().map(|v| v * v).sum::<f64>() / defined.len() as f64).sqrt()
-    };
-    Ok(Residual {
-        per_point,
-        max,
-        rms,
-        pole_limits,
-    })
-}
-
-/// Largest radius of the circle on which a product at a pole is averaged: on it ψ is
-/// (ρ_small/ρ)^ℓ smaller than on a small circle, so its rounding error, which the zero of C or A
-/// then multiplies, is that much less amplified (measured: T6, a triple pole at +2πi, residual at
-/// r = 0 of 7.7e-10 with ρ = 0.1 in double precision, 4e-11 elsewhere).
-const POLE_CIRCLE: f64 = 0.5;
-
-/// The limit at r of A(x)·ψ(r − 2πi) (`side` = −1) or C(x)·ψ(r + 2πi) (`side` = +1) where ψ has a
-/// pole: the product is analytic at r (the zero of A or C cancels the pole, MATH.md §2), so its
-/// value is the mean over a circle around r (trapezoid rule, exact up to (ρ/R)^M, R = 2π the
-/// distance to the next singularity of the product; M from the working digits).
-fn pole_product<T: CNum>(
-    eig: &Eigenfunction<T>,
-    q: &QuantumCurve,
-    r: &T,
-    side: i64,
-) -> Result<T, ProfileError> {
-    let shift = r.int_like(2 * side) * r.pi_like() * r.i_like();
-    // The product's nearest singularities are 2π away (the next poles of ψ), and the circle keeps
-    // clear of the branch points: the trapezoid error (ρ/2π)^M with M from the working digits.
-    let pole = [
-        r.re_f64(),
-        r.im_f64() + 2.0 * std::f64::consts::PI * side as f64,
-    ];
-    let rho = POLE_CIRCLE.min(0.4 * eig.distance_to_branch_point(pole));
-    let m = ((digits_for_bits(r.prec()) as f64 + 2.0) / (2.0 * std::f64::consts::PI / rho).log10())
-        .ceil()
-        .max(16.0) as usize;
-    let mut acc = r.int_like(0);
-    for w in construction::mean_value_circle(r, rho, m) {
-        let c = q.coefficients(&w);
-        let coefficient = if side < 0 { c.down } else { c.up };
-        acc = acc + coefficient * eig.psi(&(w + shift.clone()))?;
-    }
-    Ok(acc / r.int_like(m as i64))
-}
-
-#[cfg(test)]
-mod tests {
-    use super::*;
-
-    /// The hexagon dP3 from the catalogue: poles of ψ at ±2πi, cancelled in the eigen-equation
-    /// by the zeros of A and C at r = 0.
-    fn hexagon() -> Laurent {
-        Laurent::tempered(&crate::lattice::catalogue::by_id("dP3").unwrap().polygon())
-    }
-
-    #[test]
-    fn residual_with_pole_limits_and_its_failure_for_the_wrong_operator() {
-        // On a grid through r = 0 the products A·ψ(r − 2πi), C·ψ(r + 2πi) at the poles are
-        // evaluated as limits: the residual stays at double-precision level there (MATH.md §2,
-        // checked values for the hexagon). With the wrong Weyl sign (the m₂ = ±1 terms negated)
-        // the same lines give a residual of order one (negative companion).
-        let l = hexagon();
-        let a = attractor::solve_levels(&l, 1..=1, 20).unwrap()[0]
-            .modulus
-            .to_f64();
-        let eig = Eigenfunction::new(&l, Complex64::new(a, 0.0), 15.0, None, BASE_RE).unwrap();
-        let grid: Vec<f64> = (-20..=20).map(|k| 0.1 * k as f64).collect();
-        let raw = lines(&eig, &grid, true).unwrap();
-        let right = residual(&QuantumCurve::new(&l).unwrap(), &eig, &grid, &raw).unwrap();
-        assert_eq!(right.pole_limits, 2, "both products at r = 0 are limits");
-        assert!(right.max < 1e-10, "residual {:e}", right.max);
-        let flipped: Vec<_> = l
-            .terms()
-            .iter()
-            .map(|&(m, c)| (m, if m[1] == 0 { c } else { -c }))
-            .collect();
-        let wrong = QuantumCurve::new(&Laurent::from_terms(flipped)).unwrap();
-        let bad = residual(&wrong, &eig, &grid, &raw).unwrap();
-        assert!(bad.max > 1e-2, "wrong operator residual {:e}", bad.max);
-    }
 }

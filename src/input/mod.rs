@@ -1,3 +1,4 @@
-//! Requests read from text: families, vertices, coefficients, levels, moduli.
+//! Requests read from text: families, vertices, coefficients, levels, moduli, grids.
 
+pub mod grid;
 pub mod selection;

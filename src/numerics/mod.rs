@@ -4,5 +4,6 @@
 
 pub mod complex;
 pub mod laurent_poly;
+pub mod plane;
 pub mod quadrature;
 pub mod roots;

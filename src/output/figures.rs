@@ -12,7 +12,7 @@
 //!   each level as the floor line when all levels share it.
 
 use crate::checks::audit::Audit;
-use crate::eigenfunction::construction;
+use crate::eigenfunction::phase;
 use crate::eigenfunction::profile::Profile;
 use crate::output::plot::{
     self, AgreementBars, NuCurve, PlotError, ProfileSeries, ResidualSeries, StripMap,
@@ -56,7 +56,7 @@ pub fn profiles(family: &str, levels: &[&Profile]) -> Result<Figure, PlotError> 
                 .iter()
                 .zip(&p.main)
                 .map(|(&r, v)| match (v, p.rule) {
-                    (Some(v), Some(k)) => v * construction::reality_factor(k, r),
+                    (Some(v), Some(k)) => v * phase::reality_factor(k, r),
                     (Some(v), None) => *v,
                     (None, _) => Complex64::new(f64::NAN, f64::NAN),
                 })
