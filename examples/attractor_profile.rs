@@ -1,8 +1,8 @@
 //! Timing of the attractor solve of one family (development aid):
 //! `cargo run --release --example attractor_profile -- dP3 30`.
 use regwave::curve::attractor;
-use regwave::lattice::catalogue;
 use regwave::curve::laurent::Laurent;
+use regwave::lattice::catalogue;
 use std::time::Instant;
 
 fn main() {

@@ -10,8 +10,11 @@ fn main() {
         .and_then(|s| s.parse().ok())
         .unwrap_or(0);
     let digits: u32 = args.next().and_then(|s| s.parse().ok()).unwrap_or(16);
-    let l =
-        regwave::curve::laurent::Laurent::tempered(&regwave::lattice::catalogue::by_id(&id).expect("id").polygon());
+    let l = regwave::curve::laurent::Laurent::tempered(
+        &regwave::lattice::catalogue::by_id(&id)
+            .expect("id")
+            .polygon(),
+    );
     let start = Instant::now();
     let options = AuditOptions {
         levels: low..=top,

@@ -3,8 +3,8 @@
 
 use rayon::prelude::*;
 use regwave::curve::attractor;
-use regwave::lattice::catalogue;
 use regwave::curve::laurent::Laurent;
+use regwave::lattice::catalogue;
 use regwave::operator::spectrum::{self, SpectrumOptions};
 use std::time::Instant;
 

@@ -2,9 +2,9 @@
 //! family at a given modulus: `cargo run --release --example branch_points -- 40`.
 
 use num_complex::Complex64;
-use regwave::lattice::catalogue;
 use regwave::curve::cover::{Curve, SingularKind};
 use regwave::curve::laurent::Laurent;
+use regwave::lattice::catalogue;
 
 fn main() {
     let a: f64 = std::env::args()

@@ -12,11 +12,15 @@ fn main() {
         .unwrap_or(1);
     println!("level {level}, double precision, step 0.05");
     println!("family  left κ (p)        right κ (p)       range       tail      time");
-    for f in regwave::lattice::catalogue::all().iter().filter(|f| f.applicable) {
+    for f in regwave::lattice::catalogue::all()
+        .iter()
+        .filter(|f| f.applicable)
+    {
         let l = regwave::curve::laurent::Laurent::tempered(&f.polygon());
-        let a = regwave::curve::attractor::solve_levels(&l, level..=level, 20).expect("attractor")[0]
-            .modulus
-            .to_f64();
+        let a = regwave::curve::attractor::solve_levels(&l, level..=level, 20).expect("attractor")
+            [0]
+        .modulus
+        .to_f64();
         let t = Instant::now();
         let eig =
             Eigenfunction::new(&l, Complex64::new(a, 0.0), 15.0, None, 0.3).expect("eigenfunction");

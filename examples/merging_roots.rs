@@ -31,9 +31,10 @@ fn disc_direct<T: CNum>(curve: &Curve<T>, x: &T) -> T {
 fn main() {
     let (id, l, level) = common::family_and_level("F0*", 1);
     let bits = 256;
-    let a_hi = regwave::curve::attractor::solve_levels(&l, level..=level, 40).expect("attractor")[0]
-        .modulus
-        .clone();
+    let a_hi = regwave::curve::attractor::solve_levels(&l, level..=level, 40).expect("attractor")
+        [0]
+    .modulus
+    .clone();
     let a = a_hi.to_f64();
     let curve = Curve::new(&l, Complex64::new(a, 0.0)).expect("curve");
     let curve_hi = Curve::new(&l, Complex::with_val(bits, (&a_hi, 0))).expect("curve");

@@ -3,8 +3,11 @@
 use regwave::curve::attractor::Family;
 fn main() {
     let id = std::env::args().nth(1).unwrap_or_else(|| "F0".into());
-    let l =
-        regwave::curve::laurent::Laurent::tempered(&regwave::lattice::catalogue::by_id(&id).expect("id").polygon());
+    let l = regwave::curve::laurent::Laurent::tempered(
+        &regwave::lattice::catalogue::by_id(&id)
+            .expect("id")
+            .polygon(),
+    );
     let (_, threshold) = l.classical_minimum();
     let mut fam = Family::new(&l).expect("family");
     for eps in [1e-6, 1e-4, 1e-3, 1e-2, 0.1, 0.5, 1.0, 2.0, 4.0] {

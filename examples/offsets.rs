@@ -2,9 +2,9 @@
 //! `cargo run --release --example offsets`.
 
 use num_complex::Complex64;
-use regwave::lattice::catalogue;
 use regwave::curve::laurent::Laurent;
 use regwave::curve::periods;
+use regwave::lattice::catalogue;
 use regwave::operator::spectrum::{self, SpectrumOptions};
 
 fn main() {

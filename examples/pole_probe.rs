@@ -4,7 +4,9 @@ use regwave::eigenfunction::construction::Eigenfunction;
 fn main() {
     for id in ["F1", "dP3", "Q5", "T6", "Q6", "dP2*", "F0*", "F2"] {
         let l = regwave::curve::laurent::Laurent::tempered(
-            &regwave::lattice::catalogue::by_id(id).expect("id").polygon(),
+            &regwave::lattice::catalogue::by_id(id)
+                .expect("id")
+                .polygon(),
         );
         let a = regwave::curve::attractor::solve_levels(&l, 1..=1, 20).expect("a")[0]
             .modulus

@@ -4,7 +4,8 @@ use clap::{Args, Parser, Subcommand};
 use indicatif::{ProgressBar, ProgressStyle};
 use num_complex::Complex64;
 use rayon::prelude::*;
-use regwave::checks::audit::{self, Audit, AuditError, AuditOptions, CheckOptions};
+use regwave::checks::audit::{self, Audit, AuditError, AuditOptions};
+use regwave::checks::level::{self, CheckOptions};
 use regwave::curve::{attractor, periods};
 use regwave::eigenfunction::profile::{self, Profile, ProfileError, ProfileOptions, Target};
 use regwave::input::grid;
@@ -742,7 +743,7 @@ fn check_command(args: &CheckArgs) -> Result<(), Failure> {
         allow_non_attractor: args.target.allow_non_attractor,
         perturbation: 1e-6,
     };
-    let c = audit::check(&sel.laurent, &target, &options)?;
+    let c = level::check(&sel.laurent, &target, &options)?;
     let elapsed = start.elapsed().as_secs_f64();
     let mut inputs = family_inputs(&args.family, &sel);
     inputs["level"] = json!(args.target.level);

@@ -4,8 +4,8 @@
 //! numbers (a finding to report, never something to tune away).
 
 use regwave::checks::audit::{self, Audit, AuditOptions};
-use regwave::lattice::catalogue;
 use regwave::input::selection;
+use regwave::lattice::catalogue;
 
 fn run(id: &str, digits: u32) -> Audit {
     let l = selection::resolve(Some(id), None, None).unwrap().laurent;

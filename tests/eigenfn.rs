@@ -3,13 +3,13 @@
 //! analyticity, and the negative controls off the attractor modulus.
 
 use num_complex::Complex64;
+use regwave::checks::{eigenvector, zeros};
 use regwave::curve::attractor;
-use regwave::eigenfunction::construction::Eigenfunction;
 use regwave::curve::laurent::Laurent;
-use regwave::operator::quantum_curve::QuantumCurve;
+use regwave::eigenfunction::construction::Eigenfunction;
 use regwave::input::selection;
+use regwave::operator::quantum_curve::QuantumCurve;
 use regwave::operator::spectrum::{self, SpectrumOptions};
-use regwave::checks::verify;
 
 fn family(id: &str) -> Laurent {
     selection::resolve(Some(id), None, None).unwrap().laurent
@@ -41,7 +41,7 @@ fn matches_the_harmonic_oscillator_eigenvectors() {
         let spec = spectrum::solve(&l, &opts).unwrap();
         for (lev, &a) in attractor_moduli(id, 0..=3).iter().enumerate() {
             let eig = Eigenfunction::new(&l, Complex64::new(a, 0.0), 15.0, None, 0.3).unwrap();
-            let diff = verify::eigenvector_difference(&eig, &spec, lev).unwrap();
+            let diff = eigenvector::eigenvector_difference(&eig, &spec, lev).unwrap();
             assert!(diff < 1e-9, "{id} level {lev}: max difference {diff:e}");
         }
     }
@@ -133,11 +133,11 @@ fn level_n_has_n_zeros_between_the_outermost_turning_points() {
     // The counters' negative companions are in tests/verify.rs.
     for id in ["F0", "P2", "dP3"] {
         let l = family(id);
-        let rule = regwave::eigenfunction::construction::reality_rule(&l);
+        let rule = regwave::eigenfunction::phase::reality_rule(&l);
         assert!(rule.is_some(), "{id} has a reality rule");
         for (n, &a) in attractor_moduli(id, 0..=5).iter().enumerate() {
             let eig = Eigenfunction::new(&l, Complex64::new(a, 0.0), 15.0, None, 0.3).unwrap();
-            let z = verify::zeros_inside(&eig, rule).unwrap();
+            let z = zeros::zeros_inside(&eig, rule).unwrap();
             assert_eq!(z.count, n, "{id} level {n}: zeros at {:?}", z.positions);
         }
     }
@@ -263,8 +263,8 @@ fn reality_rules_hold_for_every_family_that_has_one() {
     // (an antiunitary symmetry of Ô; MATH.md §2 states k = 0 for F0 and k = −1 for P2, dP3).
     // Measured for all 15 families at level 1; the rule is checked, and where a family has none
     // the test records it.
+    use regwave::eigenfunction::phase::{reality_factor, reality_rule};
     use regwave::lattice::catalogue;
-    use regwave::eigenfunction::construction::{reality_factor, reality_rule};
     assert_eq!(reality_rule(&family("F0")), Some(0));
     assert_eq!(reality_rule(&family("P2")), Some(-1));
     assert_eq!(reality_rule(&family("dP3")), Some(-1));
@@ -382,8 +382,8 @@ fn decay_rates_of_all_fifteen_families() {
     // merging end (measured 1.27–1.37; e^{|r|}|ψ| becomes linear in |r|), p ≤ 0.7 elsewhere
     // (measured 0.00–0.47). Negative companion: the swapped value (1 for 1/2 and back) misses
     // every end by far more than 2 %.
-    use regwave::lattice::catalogue;
     use regwave::curve::cover::EndRoots;
+    use regwave::lattice::catalogue;
     let table = documented_ends();
     assert_eq!(
         table.len(),

@@ -1,8 +1,8 @@
 //! The ħ = 2π shift form of the quantum curve.
 
 use num_complex::Complex64;
-use regwave::lattice::catalogue;
 use regwave::curve::laurent::Laurent;
+use regwave::lattice::catalogue;
 use regwave::numerics::complex::CNum;
 use regwave::operator::quantum_curve::QuantumCurve;
 use rug::Complex;

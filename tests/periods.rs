@@ -1,13 +1,14 @@
 //! Periods and regulator periods: series against path, elliptic integrals, Mahler measures,
 //! path-deformation invariance and puncture loops.
 
-use regwave::lattice::catalogue;
-use regwave::curve::cover::{Curve, March};
+use regwave::curve::continuation::March;
+use regwave::curve::cover::Curve;
 use regwave::curve::laurent::Laurent;
-use regwave::numerics::complex::CNum;
 use regwave::curve::periods::{self, CyclePeriods};
-use regwave::numerics::quadrature;
 use regwave::input::selection;
+use regwave::lattice::catalogue;
+use regwave::numerics::complex::CNum;
+use regwave::numerics::quadrature;
 use rug::float::Constant;
 use rug::{Complex, Float};
 

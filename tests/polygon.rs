@@ -2,7 +2,9 @@
 //! strip form, parsing, and every error path.
 
 use regwave::lattice::catalogue;
-use regwave::lattice::polygon::{parse_vertices, LatticePoint, Mat2, Polygon, PolygonError, MAX_COORDINATE};
+use regwave::lattice::polygon::{
+    parse_vertices, LatticePoint, Mat2, Polygon, PolygonError, MAX_COORDINATE,
+};
 
 /// xorshift64*: a small deterministic generator, so failures reproduce.
 struct Rng(u64);

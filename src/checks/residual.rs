@@ -13,7 +13,7 @@
 //! A wrong operator (e.g. the wrong Weyl sign: residual of order one, tested below) and loss of
 //! precision. It is **not** a negative control for the modulus: for dP3 and for F0 it stays
 //! tiny off the attractor modulus (the shift routes never change sheet); single-valuedness
-//! ([`crate::checks::verify`]) detects that.
+//! ([`crate::checks::single_valuedness`]) detects that.
 //!
 //! # Accuracy
 //! The working precision of the eigenfunction less its losses (`docs/MATHEMATICS.md` §6):

@@ -435,7 +435,7 @@ pub fn attractors_table(
 }
 
 /// The JSON record of one audited level (the per-level keys of `audit` and `check`).
-pub fn level_json(l: &crate::checks::audit::LevelAudit) -> Value {
+pub fn level_json(l: &crate::checks::level::LevelAudit) -> Value {
     let p = &l.profile;
     let spectrum_digits = supported_digits(&l.spectrum_value, l.spectrum_error, 30);
     json!({
@@ -510,7 +510,7 @@ pub fn audit_json(
 }
 
 /// One row of the per-level table (Markdown).
-fn level_row(l: &crate::checks::audit::LevelAudit) -> String {
+fn level_row(l: &crate::checks::level::LevelAudit) -> String {
     let p = &l.profile;
     let spectrum_digits = supported_digits(&l.spectrum_value, l.spectrum_error, 30);
     let residual = p
@@ -536,7 +536,7 @@ fn level_row(l: &crate::checks::audit::LevelAudit) -> String {
 }
 
 /// One end's tail zeros as "count, measured spacing constant / predicted".
-fn tail_text(t: &crate::checks::verify::TailZeros) -> String {
+fn tail_text(t: &crate::checks::zeros::TailZeros) -> String {
     let measured = t
         .spacing_constant
         .map(|c| format!("{c:.2}"))
@@ -552,7 +552,7 @@ fn tail_text(t: &crate::checks::verify::TailZeros) -> String {
 }
 
 /// The report line on the zeros beyond the turning points.
-fn tail_line(levels: &[crate::checks::audit::LevelAudit]) -> String {
+fn tail_line(levels: &[crate::checks::level::LevelAudit]) -> String {
     let mut out = String::from(
         "- Beyond the outermost turning points ψ keeps oscillating while it decays, with zeros spaced \
          s ≈ 4π²/(Δm |r|) (Δm the gap of the root exponents at that end: 2 for F0, i.e. 2π²/|r|); on the grid, r → −∞ / r → +∞:",
@@ -580,7 +580,7 @@ single-valuedness = the larger of route dependence and Cauchy defect (0 up to ro
 pub const LEVEL_TABLE_HEADER: &str = "| n | ν | a_n (attractor) | a_n (spectrum) | agree (digits) | residual | ‖ψ‖² − 1 | zeros | decay −∞ / +∞ | ψ vs oscillator | single-valuedness |\n|---:|---:|---|---|---:|---:|---:|---:|---|---:|---:|\n";
 
 /// The per-level table of an audit or check (Markdown).
-pub fn level_table(levels: &[crate::checks::audit::LevelAudit]) -> String {
+pub fn level_table(levels: &[crate::checks::level::LevelAudit]) -> String {
     let mut out = String::from(LEVEL_TABLE_HEADER);
     for l in levels {
         out.push_str(&level_row(l));
@@ -675,7 +675,7 @@ pub fn audit_markdown(
 /// `regwave check --json`: the per-level keys of the audit plus the one-function checks.
 pub fn check_json(
     family: &str,
-    c: &crate::checks::audit::Check,
+    c: &crate::checks::level::Check,
     inputs: Value,
     elapsed_s: f64,
 ) -> Value {
@@ -696,7 +696,7 @@ pub fn check_json(
 }
 
 /// `regwave check` as text.
-pub fn check_text(family: &str, c: &crate::checks::audit::Check, elapsed_s: f64) -> String {
+pub fn check_text(family: &str, c: &crate::checks::level::Check, elapsed_s: f64) -> String {
     let l = &c.level;
     let p = &l.profile;
     let mut out = format!(
