@@ -35,15 +35,15 @@
 //! MATH.md §3–7; attractor moduli are eigenvalues (proven), every eigenvalue an attractor modulus
 //! (conjectured): the two directions are checked separately for that reason.
 
-use crate::curve::attractor::{self, AttractorError, LEVEL_OFFSET};
-use crate::eigenfunction::construction::{EigenError, Eigenfunction};
-use crate::curve::laurent::Laurent;
-use crate::numerics::complex::CNum;
-use crate::curve::periods;
-use crate::precision::{bits_for_digits, digits_for_bits, with_guard};
-use crate::eigenfunction::profile::{self, Profile, ProfileError, ProfileOptions, Target, BASE_RE};
-use crate::operator::spectrum::{self, SpectrumError, SpectrumOptions};
 use crate::checks::verify::{self, NuScan, VerifyError, Zeros};
+use crate::curve::attractor::{self, AttractorError, LEVEL_OFFSET};
+use crate::curve::laurent::Laurent;
+use crate::curve::periods;
+use crate::eigenfunction::construction::{EigenError, Eigenfunction};
+use crate::eigenfunction::profile::{self, Profile, ProfileError, ProfileOptions, Target, BASE_RE};
+use crate::numerics::complex::CNum;
+use crate::operator::spectrum::{self, SpectrumError, SpectrumOptions};
+use crate::precision::{bits_for_digits, digits_for_bits, with_guard};
 use num_complex::Complex64;
 use rayon::prelude::*;
 use rug::Float;
@@ -70,7 +70,7 @@ pub enum AuditError {
     #[error(transparent)]
     Periods(#[from] periods::PeriodsError),
     #[error(transparent)]
-    ConstantTerms(#[from] crate::curve::recurrence::RecurrenceError),
+    ConstantTerms(#[from] crate::curve::constant_terms::RecurrenceError),
 }
 
 /// What to audit.

@@ -28,11 +28,11 @@
 //! perturbative quantization volumes, "Topological strings from quantum mechanics",
 //! arXiv:1410.3382 (2014).
 
+use crate::curve::constant_terms::RecurrenceError;
 use crate::curve::laurent::Laurent;
-use crate::numerics::complex::CNum;
 use crate::curve::periods::{self, CyclePeriods, PeriodsError};
+use crate::numerics::complex::CNum;
 use crate::precision::{bits_for_digits, digits_for_bits, with_guard};
-use crate::curve::recurrence::RecurrenceError;
 use num_complex::Complex64;
 use rayon::prelude::*;
 use rug::{Complex, Float, Integer};

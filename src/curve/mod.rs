@@ -3,7 +3,7 @@
 //! attractor moduli.
 
 pub mod attractor;
+pub mod constant_terms;
 pub mod cover;
 pub mod laurent;
 pub mod periods;
-pub mod recurrence;
