@@ -3,7 +3,7 @@
 //!
 //! Run: `cargo run --release --example bench_constant_terms [n_max]`.
 
-use regwave::curve::recurrence::{constant_terms_direct, constant_terms_with_recurrence, Term};
+use regwave::curve::constant_terms::{constant_terms_direct, constant_terms_with_recurrence, Term};
 use std::time::Instant;
 
 /// φ with the boundary points of the polygon (vertices in cyclic order) as support and

@@ -6,31 +6,32 @@
 //!
 //! Modules follow the mathematical objects (see `DEVELOPERS.md` for the architecture and
 //! `docs/REFERENCES.md` for the bibliography):
-//! - [`attractor`]: attractor moduli (ν(a) ∈ Z) to any precision, with level labels.
-//! - [`audit`]: attractor moduli matched to the independent spectrum both ways, and every
+//! - [`curve::attractor`]: attractor moduli (ν(a) ∈ Z) to any precision, with level labels.
+//! - [`checks::audit`]: attractor moduli matched to the independent spectrum both ways, and every
 //!   level's eigenfunction checked.
-//! - [`polygon`]: lattice polygons, reflexivity, GL₂(Z) normal form, strip form.
-//! - [`catalogue`]: the 16 reflexive classes, 15 with a canonical strip form.
-//! - [`laurent`]: the tempered Laurent polynomial φ, its strip decomposition `A y + B + C/y`,
-//!   and the exact constant terms `[φⁿ]₀`.
-//! - [`recurrence`]: the P-recursive recurrence satisfied by `[φⁿ]₀`, guessed and checked exactly.
-//! - [`operator`]: the quantum curve at ħ = 2π in shift form.
-//! - [`periods`]: Ω and R over α and β, τ and the higher normal function ν.
-//! - [`spectrum`]: the independent harmonic-oscillator diagonalization.
-//! - [`cover`]: the double cover over the z-plane, branch points, root continuation.
-//! - [`eigenfn`]: χ on the cover, ψ = (χ − χ∘ι̃)/D at attractor moduli.
-//! - [`profile`]: the sampled, normalized eigenfunction on a grid with its residual, at a
-//!   working precision that keeps the reported digits real.
-//! - [`figures`]: audits and profiles laid out as figures (SVG documents with captions).
-//! - [`numeric`]: the small complex-number trait shared by the f64 and MPFR paths.
-//! - [`quad`]: Gauss–Legendre rules at any precision, cached.
+//! - [`lattice::polygon`]: lattice polygons, reflexivity, GL₂(Z) normal form, strip form.
+//! - [`lattice::catalogue`]: the 16 reflexive classes, 15 with a canonical strip form.
+//! - [`curve::laurent`]: the tempered Laurent polynomial φ, its strip decomposition
+//!   `A y + B + C/y`, and the exact constant terms `[φⁿ]₀`.
+//! - [`curve::constant_terms`]: the exact constant terms `[φⁿ]₀` and the P-recursive
+//!   recurrence they satisfy, guessed and checked exactly.
+//! - [`operator::quantum_curve`]: the quantum curve at ħ = 2π in shift form.
+//! - [`curve::periods`]: Ω and R over α and β, τ and the higher normal function ν.
+//! - [`operator::spectrum`]: the independent harmonic-oscillator diagonalization.
+//! - [`curve::cover`]: the double cover over the z-plane, branch points, root continuation.
+//! - [`eigenfunction::construction`]: χ on the cover, ψ = (χ − χ∘ι̃)/D at attractor moduli.
+//! - [`eigenfunction::profile`]: the sampled, normalized eigenfunction on a grid with its
+//!   residual, at a working precision that keeps the reported digits real.
+//! - [`output::figures`]: audits and profiles laid out as figures (SVG documents with captions).
+//! - [`numerics::complex`]: the small complex-number trait shared by the f64 and MPFR paths.
+//! - [`numerics::quadrature`]: Gauss–Legendre rules at any precision, cached.
 //! - [`precision`]: digits ↔ bits, guard bits and tolerances in one place.
-//! - [`selection`]: command-line selections (family id or vertices, level ranges) resolved.
-//! - [`verify`]: the checks of MATH.md §7 as measured figures (route dependence, Cauchy
+//! - [`input::selection`]: command-line selections (family id or vertices, level ranges) resolved.
+//! - [`checks::verify`]: the checks of MATH.md §7 as measured figures (route dependence, Cauchy
 //!   integrals, eigenvector agreement, zeros, orthogonality, norm, the ν scan).
-//! - [`report`]: JSON documents and human tables (pure formatting, no I/O).
-//! - [`plot`]: figures as SVG strings and PNG bytes from plain data (no I/O): stacked profiles,
-//!   strip heat maps, residuals, ν(a) with its attractors, agreement digits.
+//! - [`output::report`]: JSON documents and human tables (pure formatting, no I/O).
+//! - [`output::plot`]: figures as SVG strings and PNG bytes from plain data (no I/O): stacked
+//!   profiles, strip heat maps, residuals, ν(a) with its attractors, agreement digits.
 
 pub mod checks;
 pub mod curve;

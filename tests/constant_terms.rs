@@ -3,7 +3,7 @@
 //!
 //! Run: `cargo test --release --test constant_terms`.
 
-use regwave::curve::recurrence::{
+use regwave::curve::constant_terms::{
     constant_terms, constant_terms_direct, constant_terms_with_recurrence, guess, guess_from_terms,
     Recurrence, RecurrenceError, Term, MAX_DEGREE, MAX_ORDER,
 };

@@ -34,6 +34,7 @@
 //! # References
 //! MATH.md §3–7; attractor moduli are eigenvalues (proven), every eigenvalue an attractor modulus
 //! (conjectured): the two directions are checked separately for that reason.
+
 use crate::checks::level::{
     diagnostic_bits, level_audit, negative_control, LevelAudit, NegativeControl,
 };
@@ -68,7 +69,7 @@ pub enum AuditError {
     #[error(transparent)]
     Periods(#[from] periods::PeriodsError),
     #[error(transparent)]
-    ConstantTerms(#[from] crate::curve::recurrence::RecurrenceError),
+    ConstantTerms(#[from] crate::curve::constant_terms::RecurrenceError),
 }
 
 /// What to audit.

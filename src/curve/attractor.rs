@@ -28,9 +28,9 @@
 //! perturbative quantization volumes, "Topological strings from quantum mechanics",
 //! arXiv:1410.3382 (2014).
 
+use crate::curve::constant_terms::RecurrenceError;
 use crate::curve::laurent::Laurent;
 use crate::curve::periods::{self, CyclePeriods, PeriodsError};
-use crate::curve::recurrence::RecurrenceError;
 use crate::numerics::complex::CNum;
 use crate::precision::{bits_for_digits, digits_for_bits, with_guard};
 use num_complex::Complex64;

@@ -25,7 +25,7 @@
 //! Canad. J. Math. 54 (2002); "Modular Mahler measures I", Topics in Number Theory (1999).
 //! See `docs/REFERENCES.md`.
 
-use crate::curve::recurrence::{self, RecurrenceError, Term};
+use crate::curve::constant_terms::{self, RecurrenceError, Term};
 use crate::lattice::polygon::{LatticePoint, Polygon};
 use crate::numerics::complex::CNum;
 use rug::Integer;
@@ -225,9 +225,9 @@ impl Laurent {
     /// Exact `[φⁿ]₀` for n = 0..=n_max (via the recurrence the sequence satisfies).
     ///
     /// # Errors
-    /// See [`recurrence::constant_terms`].
+    /// See [`constant_terms::constant_terms`].
     pub fn constant_terms(&self, n_max: usize) -> Result<Vec<Integer>, RecurrenceError> {
-        recurrence::constant_terms(&self.terms, n_max)
+        constant_terms::constant_terms(&self.terms, n_max)
     }
 
     /// The classical Hamiltonian `H(r, p) = φ(e^r, e^p)` with its gradient and Hessian.

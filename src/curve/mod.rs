@@ -3,8 +3,8 @@
 //! attractor moduli.
 
 pub mod attractor;
+pub mod constant_terms;
 pub mod continuation;
 pub mod cover;
 pub mod laurent;
 pub mod periods;
-pub mod recurrence;

@@ -26,8 +26,8 @@
 //! "Topological strings from quantum mechanics", Annales Henri Poincaré 17 (2016), arXiv:1410.3382
 //! (the operators); the ħ = 2π shift form as in MATH.md §2.
 
+use crate::curve::constant_terms::Term;
 use crate::curve::laurent::{Laurent, LaurentError};
-use crate::curve::recurrence::Term;
 use crate::numerics::complex::CNum;
 
 /// The three shift coefficients at one r: `(Ôψ)(r) = down·ψ(r − 2πi) + centre·ψ(r) + up·ψ(r + 2πi)`.
