@@ -9,6 +9,7 @@ use regwave::checks::level::{self, CheckOptions};
 use regwave::curve::{attractor, periods};
 use regwave::eigenfunction::profile::{self, Profile, ProfileError, ProfileOptions, Target};
 use regwave::input::grid;
+use regwave::input::numbers;
 use regwave::input::selection::{self, Selection, SelectionError};
 use regwave::lattice::catalogue;
 use regwave::operator::spectrum::{self, SpectrumError, SpectrumOptions};
@@ -308,7 +309,7 @@ fn family_inputs(f: &FamilyArgs, s: &Selection) -> Value {
 fn run_spectrum(args: &SpectrumArgs) -> Result<(Value, String), Failure> {
     check_digits(args.digits)?;
     let sel = select(&args.family)?;
-    let levels = selection::parse_levels(&args.levels)?;
+    let levels = numbers::parse_levels(&args.levels)?;
     let (basis, max_basis) = match args.basis {
         Some(n) => (n, spectrum::next_basis(n)),
         None => (
@@ -354,7 +355,7 @@ fn periods_command(args: &PeriodsArgs) -> Result<(), Failure> {
     check_digits(args.digits)?;
     let sel = select(&args.family)?;
     let bits = with_guard(bits_for_digits(args.digits as f64));
-    let a = selection::parse_modulus(&args.modulus, bits, &sel.laurent)?;
+    let a = numbers::parse_modulus(&args.modulus, bits, &sel.laurent)?;
     let start = Instant::now();
     let terms = sel.laurent.constant_terms(2000).map_err(Failure::compute)?;
     let ac = rug::Complex::with_val(bits, (&a, 0));
@@ -383,7 +384,7 @@ fn periods_command(args: &PeriodsArgs) -> Result<(), Failure> {
 fn run_attractors(args: &AttractorsArgs) -> Result<(Value, String), Failure> {
     check_digits(args.digits)?;
     let sel = select(&args.family)?;
-    let levels = selection::parse_levels(&args.levels)?;
+    let levels = numbers::parse_levels(&args.levels)?;
     let start = Instant::now();
     let list = attractor::solve_levels(&sel.laurent, levels.clone(), args.digits)
         .map_err(Failure::compute)?;
@@ -607,7 +608,7 @@ fn run_audit(
 fn audit_command(args: &AuditArgs) -> Result<(), Failure> {
     check_digits(args.digits)?;
     let sel = select(&args.family)?;
-    let levels = selection::parse_levels(&args.levels)?;
+    let levels = numbers::parse_levels(&args.levels)?;
     let grid = grid::Grid::parse(&args.grid).map_err(Failure::input)?;
     let out = args
         .out

@@ -1,10 +1,9 @@
 //! Tests of `regwave::lattice::polygon`: hull, lattice points, reflexivity, lattice width, normal form,
 //! strip form, parsing, and every error path.
 
+use regwave::input::vertices::parse_vertices;
 use regwave::lattice::catalogue;
-use regwave::lattice::polygon::{
-    parse_vertices, LatticePoint, Mat2, Polygon, PolygonError, MAX_COORDINATE,
-};
+use regwave::lattice::polygon::{LatticePoint, Mat2, Polygon, PolygonError, MAX_COORDINATE};
 
 /// xorshift64*: a small deterministic generator, so failures reproduce.
 struct Rng(u64);

@@ -43,7 +43,8 @@ use crate::eigenfunction::construction::{EigenError, Eigenfunction};
 use crate::eigenfunction::normalization::Normalization;
 use crate::eigenfunction::phase;
 use crate::eigenfunction::poles::{self, Pole};
-use crate::input::selection::{self, SelectionError};
+use crate::input::numbers;
+use crate::input::selection::SelectionError;
 use crate::numerics::complex::CNum;
 use crate::operator::quantum_curve::QuantumCurve;
 use crate::precision::{bits_for_digits, digits_for_bits, with_guard, MAX_DIGITS};
@@ -256,7 +257,7 @@ fn resolve(
         )),
         Target::Attractor(at) => Ok(solved(at)),
         Target::Modulus(text) => {
-            let a = selection::parse_modulus(text, bits, laurent)?;
+            let a = numbers::parse_modulus(text, bits, laurent)?;
             let mut fam = attractor::Family::new(laurent)?;
             let (nu, _, _, _) = fam.nu(&a, bits)?;
             let nu = nu.to_f64();
@@ -303,7 +304,7 @@ fn modulus_at(
         return Ok(Float::with_val(bits, &resolved.modulus));
     }
     match (target, resolved.level) {
-        (Target::Modulus(text), _) => Ok(selection::parse_modulus(text, bits, laurent)?),
+        (Target::Modulus(text), _) => Ok(numbers::parse_modulus(text, bits, laurent)?),
         (_, Some(n)) => {
             let d = digits_for_bits(bits).min(MAX_DIGITS);
             let at = attractor::solve_levels(laurent, n..=n, d)?;
