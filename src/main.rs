@@ -512,10 +512,10 @@ fn build_command(args: &BuildArgs) -> Result<(), Failure> {
     inputs["strip"] = json!(args.strip);
     inputs["digits"] = json!(args.digits);
     let doc = profile_json(&p, sel.family.id, &files, inputs, elapsed);
-    let mut outputs = vec![("psi.csv", csv(&p.grid, &p.main))];
+    let mut outputs = vec![("psi.csv", csv(&p.grid, &p.real_line))];
     if args.strip {
-        outputs.push(("psi_up.csv", csv(&p.grid, &p.up)));
-        outputs.push(("psi_down.csv", csv(&p.grid, &p.down)));
+        outputs.push(("psi_up.csv", csv(&p.grid, &p.upper_line)));
+        outputs.push(("psi_down.csv", csv(&p.grid, &p.lower_line)));
     }
     outputs.push((
         "psi.json",
@@ -959,9 +959,9 @@ fn tour(out: &Path, png: bool) -> Result<(), Failure> {
     files.extend(figure_files(&figs, png)?);
     let dir = format!("psi-{}-{}-{}digits", TOUR_HIGH.0, TOUR_HIGH.1, TOUR_HIGH.2);
     let psi_files = [
-        ("psi.csv", csv(&high.grid, &high.main)),
-        ("psi_up.csv", csv(&high.grid, &high.up)),
-        ("psi_down.csv", csv(&high.grid, &high.down)),
+        ("psi.csv", csv(&high.grid, &high.real_line)),
+        ("psi_up.csv", csv(&high.grid, &high.upper_line)),
+        ("psi_down.csv", csv(&high.grid, &high.lower_line)),
         (
             "psi.json",
             serde_json::to_string_pretty(&doc["high_precision"]).expect("JSON"),

@@ -89,7 +89,7 @@ pub struct AuditOptions {
 }
 
 /// A whole audit.
-#[derive(Debug, Clone)]
+#[derive(Debug, Clone, serde::Serialize)]
 pub struct Audit {
     pub levels: Vec<LevelAudit>,
     /// |⟨ψ_m, ψ_n⟩| of the audited levels.

@@ -33,12 +33,13 @@ use num_complex::Complex64;
 use rug::Float;
 
 /// One audited level.
-#[derive(Debug, Clone)]
+#[derive(Debug, Clone, serde::Serialize)]
 pub struct LevelAudit {
     pub level: usize,
     /// The integer value of ν at the modulus.
     pub nu: i64,
     /// The independent eigenvalue of the same level and its error estimate.
+    #[serde(serialize_with = "crate::numerics::serial::float")]
     pub spectrum_value: Float,
     pub spectrum_error: f64,
     /// Digits on which modulus and eigenvalue agree, and the digits the comparison supports.
@@ -166,10 +167,10 @@ pub(crate) fn level_audit(
         .min(profile.modulus_digits as f64);
     let agreement_digits = crate::precision::agreement_digits(rel, cap.max(0.0));
     let norm = norms::norm_coarse(&profile.normalization);
-    let norm_on_grid = norms::norm_on_grid(&profile.grid, &profile.main);
+    let norm_on_grid = norms::norm_on_grid(&profile.grid, &profile.real_line);
     let tail_zeros = zeros::tail_zeros(
         &profile.grid,
-        &profile.main,
+        &profile.real_line,
         profile.rule,
         d.zeros.window,
         d.end_gaps,
@@ -203,7 +204,7 @@ pub struct CheckOptions {
 }
 
 /// All checks of one eigenfunction.
-#[derive(Debug, Clone)]
+#[derive(Debug, Clone, serde::Serialize)]
 pub struct Check {
     pub level: LevelAudit,
     pub negative_control: NegativeControl,

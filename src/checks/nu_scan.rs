@@ -21,7 +21,7 @@ use crate::curve::attractor::Family;
 use crate::curve::laurent::Laurent;
 
 /// ν on a grid uniform in log a, with the integer crossings.
-#[derive(Debug, Clone)]
+#[derive(Debug, Clone, serde::Serialize)]
 pub struct NuScan {
     pub log_a: Vec<f64>,
     pub nu: Vec<f64>,

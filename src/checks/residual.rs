@@ -33,7 +33,7 @@ use crate::operator::quantum_curve::QuantumCurve;
 use crate::precision::digits_for_bits;
 
 /// The eigen-equation residual on the grid.
-#[derive(Debug, Clone)]
+#[derive(Debug, Clone, serde::Serialize)]
 pub struct Residual {
     /// |A ψ(r − 2πi) + C ψ(r + 2πi) − (B + a) ψ(r)| / max|ψ| per grid point.
     pub per_point: Vec<Option<f64>>,

@@ -32,6 +32,7 @@ use crate::curve::constant_terms::RecurrenceError;
 use crate::curve::laurent::Laurent;
 use crate::curve::periods::{self, CyclePeriods, PeriodsError};
 use crate::numerics::complex::CNum;
+use crate::numerics::serial;
 use crate::precision::{bits_for_digits, digits_for_bits, with_guard};
 use num_complex::Complex64;
 use rayon::prelude::*;
@@ -61,12 +62,14 @@ pub enum AttractorError {
 }
 
 /// One attractor modulus.
-#[derive(Debug, Clone, PartialEq)]
+#[derive(Debug, Clone, PartialEq, serde::Serialize)]
 pub struct Attractor {
     pub level: usize,
     /// The integer value of ν.
     pub nu: i64,
+    #[serde(serialize_with = "serial::float")]
     pub modulus: Float,
+    #[serde(serialize_with = "serial::float")]
     pub log_modulus: Float,
     /// Decimal digits that survived the confirming solve at higher precision.
     pub digits: u32,

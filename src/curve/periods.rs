@@ -37,6 +37,7 @@ use crate::curve::cover::{CoverError, Curve, Point, Singular, SingularKind};
 use crate::curve::laurent::Laurent;
 use crate::numerics::complex::CNum;
 use crate::numerics::plane::segment_distance;
+use crate::numerics::serial;
 use rug::{Complex, Float, Integer};
 use thiserror::Error;
 
@@ -69,13 +70,18 @@ pub enum PeriodsError {
 }
 
 /// Ω and R of one cycle, with the error estimate of the computation.
-#[derive(Debug, Clone)]
+#[derive(Debug, Clone, serde::Serialize)]
+#[serde(bound(serialize = "T: CNum"))]
 pub struct CyclePeriods<T> {
+    #[serde(serialize_with = "serial::complex")]
     pub omega: T,
+    #[serde(serialize_with = "serial::complex")]
     pub regulator: T,
-    /// dΩ/da (then dR/da = Ω: Beilinson's correction term cancels the boundary terms).
+    /// dΩ/da (then dR/da = Ω: the correction term of the regulator cancels the boundary terms).
+    #[serde(serialize_with = "serial::complex")]
     pub omega_da: T,
     /// d²Ω/da².
+    #[serde(serialize_with = "serial::complex")]
     pub omega_daa: T,
     /// Integration steps taken (0 for the series).
     pub steps: usize,
@@ -193,7 +199,7 @@ fn regulator_of<T: CNum>(ints: PathIntegrals<T>, start: &Point<T>) -> CyclePerio
 }
 
 /// The β cycle chosen by the module's rule: its polyline (closed) and the two branch points.
-#[derive(Debug, Clone)]
+#[derive(Debug, Clone, serde::Serialize)]
 pub struct BetaLoop {
     /// The two branch points the loop surrounds (z, f64).
     pub branch_points: [[f64; 2]; 2],
@@ -389,16 +395,21 @@ pub fn beta_path<T: CNum>(
 }
 
 /// All periods at one modulus.
-#[derive(Debug, Clone)]
+#[derive(Debug, Clone, serde::Serialize)]
+#[serde(bound(serialize = "T: CNum"))]
 pub struct Periods<T> {
     pub alpha: CyclePeriods<T>,
     pub beta: CyclePeriods<T>,
+    #[serde(serialize_with = "serial::complex")]
     pub tau: T,
     /// `(R_β − τ R_α)/(2πi)²`.
+    #[serde(serialize_with = "serial::complex")]
     pub nu: T,
     /// dν/da = −τ' R_α/(2πi)², τ' = (Ω_β' Ω_α − Ω_β Ω_α')/Ω_α² (using R_γ' = Ω_γ).
+    #[serde(serialize_with = "serial::complex")]
     pub nu_da: T,
     /// d²ν/da² = −(τ'' R_α + τ' Ω_α)/(2πi)², τ'' = (Ω_β''Ω_α − Ω_βΩ_α'')/Ω_α² − 2τ'Ω_α'/Ω_α.
+    #[serde(serialize_with = "serial::complex")]
     pub nu_daa: T,
     pub beta_loop: BetaLoop,
     /// Estimated absolute error of ν.
@@ -457,7 +468,7 @@ pub fn periods<T: CNum>(
 }
 
 /// Ω_α and R_α by both methods with their agreement, and the path periods at modulus `a`.
-#[derive(Debug, Clone)]
+#[derive(Debug, Clone, serde::Serialize)]
 pub struct Comparison {
     /// The series values (None when |a| is not above the series radius φ(1,1)).
     pub series: Option<CyclePeriods<Complex>>,

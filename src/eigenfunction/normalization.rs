@@ -20,13 +20,21 @@
 
 use crate::eigenfunction::construction::{EigenError, Eigenfunction};
 use crate::numerics::complex::CNum;
+use crate::numerics::serial;
 use num_complex::Complex64;
+
+/// The samples as a list of `{"re", "im"}`.
+fn complex64_list<S: serde::Serializer>(xs: &[Complex64], s: S) -> Result<S::Ok, S::Error> {
+    let line: Vec<Option<Complex64>> = xs.iter().copied().map(Some).collect();
+    serial::complex64_line(&line, s)
+}
 
 /// Normalization of ψ on R: unit L² norm and the phase rule "ψ real and positive at the point of
 /// largest |ψ|".
-#[derive(Debug, Clone)]
+#[derive(Debug, Clone, serde::Serialize)]
 pub struct Normalization {
     /// Multiply the raw ψ by this factor.
+    #[serde(serialize_with = "serial::complex64")]
     pub factor: Complex64,
     /// ∫|ψ_raw|² over R (trapezoid on the quadrature range plus the tail estimate).
     pub raw_norm_squared: f64,
@@ -44,7 +52,8 @@ pub struct Normalization {
     pub decay_power: [f64; 2],
     /// Where |ψ| is largest on the quadrature grid.
     pub peak: f64,
-    /// The raw ψ on the quadrature grid r_k = −range_ends[0] + k·step (multiply by `factor`).
+    /// The raw ψ on the quadrature grid r_k = −range_ends\[0\] + k·step (multiply by `factor`).
+    #[serde(serialize_with = "complex64_list")]
     pub samples: Vec<Complex64>,
 }
 
@@ -147,7 +156,7 @@ pub const MAX_RANGE: f64 = 100.0;
 pub const ENVELOPE_START: f64 = 1e-6;
 
 /// A fitted decay law `|ψ(r)| ≈ c |r|^p e^{−κ|r|}` at one end of R.
-#[derive(Debug, Clone, Copy, PartialEq)]
+#[derive(Debug, Clone, Copy, PartialEq, serde::Serialize)]
 pub struct Decay {
     /// κ.
     pub rate: f64,

@@ -46,6 +46,7 @@ use crate::eigenfunction::poles::{self, Pole};
 use crate::input::numbers;
 use crate::input::selection::SelectionError;
 use crate::numerics::complex::CNum;
+use crate::numerics::serial;
 use crate::operator::quantum_curve::QuantumCurve;
 use crate::precision::{bits_for_digits, digits_for_bits, with_guard, MAX_DIGITS};
 use num_complex::Complex64;
@@ -122,11 +123,12 @@ pub struct ProfileOptions {
 }
 
 /// The sampled eigenfunction with everything needed to reproduce and judge it.
-#[derive(Debug, Clone)]
+#[derive(Debug, Clone, serde::Serialize)]
 pub struct Profile {
     /// The level (ν − 1) when the modulus is an attractor modulus with ν ≥ 1.
     pub level: Option<usize>,
     /// The modulus at the final working precision.
+    #[serde(serialize_with = "serial::float")]
     pub modulus: Float,
     /// Its confirmed digits: those of the attractor solve (a second solve at higher precision
     /// agrees on them), or the digits of a given modulus as typed.
@@ -134,8 +136,10 @@ pub struct Profile {
     /// ν at the modulus and its distance to the nearest integer.
     pub nu: f64,
     pub nu_distance: f64,
+    #[serde(serialize_with = "serial::complex64")]
     pub lambda: Complex64,
     pub spine: f64,
+    #[serde(serialize_with = "serial::complex64")]
     pub base: Complex64,
     /// Working precision (53 = double).
     pub precision_bits: u32,
@@ -147,11 +151,15 @@ pub struct Profile {
     pub cancellation_digits: f64,
     pub strip_cancellation_digits: Option<f64>,
     pub grid: Vec<f64>,
-    /// ψ on R, normalized and phase-fixed (None: not sampled).
-    pub main: Vec<Option<Complex64>>,
-    /// ψ on Im r = +2π and −2π (empty without `strip`; None on a pole).
-    pub up: Vec<Option<Complex64>>,
-    pub down: Vec<Option<Complex64>>,
+    /// ψ on R at the grid points, normalized and phase-fixed (None: not sampled).
+    #[serde(serialize_with = "serial::complex64_line")]
+    pub real_line: Vec<Option<Complex64>>,
+    /// ψ on the boundary line Im r = +2π (empty without `strip`; None on a pole).
+    #[serde(serialize_with = "serial::complex64_line")]
+    pub upper_line: Vec<Option<Complex64>>,
+    /// ψ on the boundary line Im r = −2π (empty without `strip`; None on a pole).
+    #[serde(serialize_with = "serial::complex64_line")]
+    pub lower_line: Vec<Option<Complex64>>,
     pub residual: Option<Residual>,
     pub poles: Vec<Pole>,
     /// Real parts of the branch points in the period strip Im z ∈ (−π, π].
@@ -161,6 +169,7 @@ pub struct Profile {
     pub reality_defect: Option<f64>,
     /// The factor that takes the raw ψ (χ = 1 at the base point) to the written one: the unit
     /// norm and the phase rule.
+    #[serde(serialize_with = "serial::complex64")]
     pub factor: Complex64,
     pub normalization: Normalization,
 }
@@ -349,9 +358,9 @@ fn sample_at(
 
 /// The raw (unnormalized) lines at the working precision.
 struct Lines<T> {
-    main: Vec<Option<T>>,
-    up: Vec<Option<T>>,
-    down: Vec<Option<T>>,
+    real_line: Vec<Option<T>>,
+    upper_line: Vec<Option<T>>,
+    lower_line: Vec<Option<T>>,
     loss: f64,
     strip_loss: Option<f64>,
 }
@@ -374,13 +383,13 @@ fn lines<T: CNum + Send + Sync>(
             }
         },
     );
-    let (main, loss) = main?;
-    let (up, up_loss) = up?.unwrap_or((Vec::new(), 0.0));
-    let (down, down_loss) = down?.unwrap_or((Vec::new(), 0.0));
+    let (real_line, loss) = main?;
+    let (upper_line, up_loss) = up?.unwrap_or((Vec::new(), 0.0));
+    let (lower_line, down_loss) = down?.unwrap_or((Vec::new(), 0.0));
     Ok(Lines {
-        main,
-        up,
-        down,
+        real_line,
+        upper_line,
+        lower_line,
         loss,
         strip_loss: strip.then_some(loss.max(up_loss).max(down_loss)),
     })
@@ -403,9 +412,9 @@ fn sample<T: CNum + Send + Sync>(
             &QuantumCurve::new(laurent)?,
             &eig,
             &options.grid,
-            &raw.main,
-            &raw.up,
-            &raw.down,
+            &raw.real_line,
+            &raw.upper_line,
+            &raw.lower_line,
         )?)
     } else {
         None
@@ -415,16 +424,16 @@ fn sample<T: CNum + Send + Sync>(
             .map(|v| v.as_ref().map(|v| v.to_c64() * normalization.factor))
             .collect()
     };
-    let mut main = round(&raw.main);
-    let mut up = round(&raw.up);
-    let mut down = round(&raw.down);
+    let mut real_line = round(&raw.real_line);
+    let mut upper_line = round(&raw.upper_line);
+    let mut lower_line = round(&raw.lower_line);
     let rule = phase::reality_rule(laurent);
     let fixed = rule.and_then(|k| {
         phase::fix_phase(
             k,
             &options.grid,
-            &mut main,
-            &mut [up.as_mut_slice(), down.as_mut_slice()],
+            &mut real_line,
+            &mut [upper_line.as_mut_slice(), lower_line.as_mut_slice()],
         )
     });
     let reality_defect = fixed.map(|f| f.0);
@@ -445,9 +454,9 @@ fn sample<T: CNum + Send + Sync>(
         cancellation_digits: raw.loss,
         strip_cancellation_digits: raw.strip_loss,
         grid: options.grid.clone(),
-        main,
-        up,
-        down,
+        real_line,
+        upper_line,
+        lower_line,
         residual,
         poles: poles::strip_poles(eig.curve()),
         branch_points,

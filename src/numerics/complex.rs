@@ -54,6 +54,9 @@ pub trait CNum:
     fn to_c64(&self) -> Complex64 {
         Complex64::new(self.re_f64(), self.im_f64())
     }
+    /// Re z and Im z as decimal strings with every digit of the working precision (enough to
+    /// read back the same binary value).
+    fn decimal_parts(&self) -> (String, String);
 }
 
 impl CNum for Complex64 {
@@ -95,6 +98,10 @@ impl CNum for Complex64 {
     }
     fn im_f64(&self) -> f64 {
         self.im
+    }
+    fn decimal_parts(&self) -> (String, String) {
+        // Rust's shortest round-trip rendering of a double.
+        (format!("{:?}", self.re), format!("{:?}", self.im))
     }
 }
 
@@ -163,6 +170,12 @@ impl CNum for Complex {
     }
     fn im_f64(&self) -> f64 {
         self.imag().to_f64()
+    }
+    fn decimal_parts(&self) -> (String, String) {
+        (
+            crate::numerics::serial::float_text(self.real()),
+            crate::numerics::serial::float_text(self.imag()),
+        )
     }
 }
 

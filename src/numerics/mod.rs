@@ -7,3 +7,4 @@ pub mod laurent_poly;
 pub mod plane;
 pub mod quadrature;
 pub mod roots;
+pub mod serial;

@@ -54,7 +54,7 @@ pub fn profiles(family: &str, levels: &[&Profile]) -> Result<Figure, PlotError> 
             values: p
                 .grid
                 .iter()
-                .zip(&p.main)
+                .zip(&p.real_line)
                 .map(|(&r, v)| match (v, p.rule) {
                     (Some(v), Some(k)) => v * phase::reality_factor(k, r),
                     (Some(v), None) => *v,
