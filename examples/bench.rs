@@ -5,6 +5,7 @@ use rayon::prelude::*;
 use regwave::curve::attractor;
 use regwave::curve::laurent::Laurent;
 use regwave::lattice::catalogue;
+use regwave::operator::oscillator;
 use regwave::operator::spectrum::{self, SpectrumOptions};
 use std::time::Instant;
 
@@ -16,7 +17,7 @@ fn main() {
     let (mut worst_single, mut worst_pair): (f64, f64) = (0.0, 0.0);
     for f in catalogue::all().iter().filter(|f| f.applicable) {
         let laurent = Laurent::tempered(&f.polygon());
-        let frame = spectrum::frame(&laurent, 1.0);
+        let frame = oscillator::frame(&laurent, 1.0);
         let t = Instant::now();
         let single =
             spectrum::truncated_eigenvalues(&laurent, &frame, 200, 6, 16).expect("spectrum");

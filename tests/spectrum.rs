@@ -2,6 +2,7 @@
 
 use regwave::curve::laurent::Laurent;
 use regwave::input::selection;
+use regwave::operator::oscillator;
 use regwave::operator::spectrum::{self, SpectrumOptions};
 use rug::float::Constant;
 use rug::Float;
@@ -170,9 +171,11 @@ fn multiprecision_solver_agrees_with_nalgebra_on_a_small_truncation() {
     // O(1) on this matrix, so it is not used).
     for id in ["P2", "Q7"] {
         let l = family(id);
-        let frame = spectrum::frame(&l, 1.0);
+        let frame = oscillator::frame(&l, 1.0);
         let n = 12;
-        let m = spectrum::truncated_matrix_f64(&l, &frame, n, 200);
+        // Row-major n×n, as a nalgebra matrix.
+        let rows = spectrum::truncated_matrix_f64(&l, &frame, n, 200);
+        let m = nalgebra::DMatrix::from_row_slice(n, n, &rows);
         // Real symmetric embedding [[Re, −Im], [Im, Re]]: every eigenvalue twice.
         let big = nalgebra::DMatrix::from_fn(2 * n, 2 * n, |i, j| {
             let z = m[(i % n, j % n)];
