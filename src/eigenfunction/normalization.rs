@@ -23,12 +23,6 @@ use crate::numerics::complex::CNum;
 use crate::numerics::serial;
 use num_complex::Complex64;
 
-/// The samples as a list of `{"re", "im"}`.
-fn complex64_list<S: serde::Serializer>(xs: &[Complex64], s: S) -> Result<S::Ok, S::Error> {
-    let line: Vec<Option<Complex64>> = xs.iter().copied().map(Some).collect();
-    serial::complex64_line(&line, s)
-}
-
 /// Normalization of ψ on R: unit L² norm and the phase rule "ψ real and positive at the point of
 /// largest |ψ|".
 #[derive(Debug, Clone, serde::Serialize)]
@@ -53,7 +47,7 @@ pub struct Normalization {
     /// Where |ψ| is largest on the quadrature grid.
     pub peak: f64,
     /// The raw ψ on the quadrature grid r_k = −range_ends\[0\] + k·step (multiply by `factor`).
-    #[serde(serialize_with = "complex64_list")]
+    #[serde(serialize_with = "serial::complex64_list")]
     pub samples: Vec<Complex64>,
 }
 

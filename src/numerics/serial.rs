@@ -65,6 +65,12 @@ pub fn complex64_line<S: Serializer>(line: &[Option<Complex64>], s: S) -> Result
     s.collect_seq(line.iter().map(|v| v.map(|v| C { re: v.re, im: v.im })))
 }
 
+/// serde `serialize_with` for a list of [`Complex64`]: `[{"re", "im"}, …]`.
+pub fn complex64_list<S: Serializer>(xs: &[Complex64], s: S) -> Result<S::Ok, S::Error> {
+    let line: Vec<Option<Complex64>> = xs.iter().copied().map(Some).collect();
+    complex64_line(&line, s)
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;

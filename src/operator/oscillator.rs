@@ -50,7 +50,7 @@ use rug::ops::CompleteRound;
 use rug::{Assign, Float};
 
 /// The unitary frame of the oscillator basis.
-#[derive(Debug, Clone)]
+#[derive(Debug, Clone, serde::Serialize)]
 pub struct Frame {
     /// The classical minimum (r*, p*).
     pub centre: [f64; 2],

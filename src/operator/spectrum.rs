@@ -100,19 +100,22 @@ pub fn next_basis(n: usize) -> usize {
 }
 
 /// One level of the truncated problem.
-#[derive(Debug, Clone)]
+#[derive(Debug, Clone, serde::Serialize)]
 pub struct Level {
     pub level: usize,
     /// The eigenvalue a_n (at the largest basis solved).
+    #[serde(serialize_with = "crate::numerics::serial::float")]
     pub value: Float,
     /// |a_n(N) − a_n(3N/2)| for the last two bases solved.
     pub error_estimate: f64,
-    /// Eigenvector coefficients in the frame's oscillator basis (unit norm).
+    /// Eigenvector coefficients in the frame's oscillator basis (unit norm, rounded to double
+    /// precision).
+    #[serde(serialize_with = "crate::numerics::serial::complex64_list")]
     pub eigenvector: Vec<Complex64>,
 }
 
 /// The result of [`solve`].
-#[derive(Debug, Clone)]
+#[derive(Debug, Clone, serde::Serialize)]
 pub struct Spectrum {
     pub frame: Frame,
     /// Basis sizes solved, in order.
