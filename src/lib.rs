@@ -27,7 +27,7 @@
 //! - [`numerics::quadrature`]: Gauss–Legendre rules at any precision, cached.
 //! - [`precision`]: digits ↔ bits, guard bits and tolerances in one place.
 //! - [`input::selection`]: command-line selections (family id or vertices, level ranges) resolved.
-//! - [`checks::verify`]: the checks of MATH.md §7 as measured figures (route dependence, Cauchy
+//! - [`checks::verify`]: the checks of docs/MATHEMATICS.md §7 as measured figures (route dependence, Cauchy
 //!   integrals, eigenvector agreement, zeros, orthogonality, norm, the ν scan).
 //! - [`output::report`]: JSON documents and human tables (pure formatting, no I/O).
 //! - [`output::plot`]: figures as SVG strings and PNG bytes from plain data (no I/O): stacked

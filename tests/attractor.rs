@@ -26,7 +26,7 @@ fn assert_prefix(value: &Float, reference: &str, digits: usize) {
 
 #[test]
 fn checked_values_at_thirty_digits() {
-    // MATH.md §4 checked values (computed independently of this project, 24 digits shown).
+    // docs/MATHEMATICS.md §4 checked values (computed independently of this project, 24 digits shown).
     let t = std::time::Instant::now();
     let cases = [
         (
@@ -63,7 +63,7 @@ fn checked_values_at_thirty_digits() {
 #[test]
 fn attractor_moduli_are_the_independent_eigenvalues_for_every_family() {
     // Levels 0..5 of all 15 families: ν(a_n) = n + 1 at the harmonic-oscillator eigenvalues, to
-    // the digits the spectrum supports (≥ 12 for F0, P2, dP3: MATH.md §4 / issue requirement).
+    // the digits the spectrum supports (≥ 12 for F0, P2, dP3: docs/MATHEMATICS.md §4 / issue requirement).
     use regwave::lattice::catalogue;
     use regwave::operator::spectrum::{self, SpectrumOptions};
     for f in catalogue::all().iter().filter(|f| f.applicable) {

@@ -499,7 +499,7 @@ fn attractors_json_contract_and_values() {
         for key in ["level", "nu", "modulus", "log_modulus"] {
             assert!(item.get(key).is_some(), "missing {key}");
         }
-        // MATH.md §4 checked values.
+        // docs/MATHEMATICS.md §4 checked values.
         assert!(
             item["modulus"].as_str().unwrap().starts_with(want),
             "{item}"

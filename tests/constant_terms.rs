@@ -31,7 +31,7 @@ const PENTAGON: [Term; 5] = [
     ([0, -1], 1),
 ];
 /// The square with vertices (±1, ±1): vertices coefficient 1, edge midpoints C(2, 1) = 2
-/// (binomial edge coefficients, MATH.md §1).
+/// (binomial edge coefficients, docs/MATHEMATICS.md §1).
 const SQUARE: [Term; 8] = [
     ([1, 1], 1),
     ([-1, 1], 1),
@@ -42,7 +42,7 @@ const SQUARE: [Term; 8] = [
     ([-1, 0], 2),
     ([0, -1], 2),
 ];
-/// The triangle (2,−1), (−1,2), (−1,−1): coefficients 1, 3, 3, 1 along each edge (MATH.md §1).
+/// The triangle (2,−1), (−1,2), (−1,−1): coefficients 1, 3, 3, 1 along each edge (docs/MATHEMATICS.md §1).
 const TRIANGLE: [Term; 9] = [
     ([2, -1], 1),
     ([1, 0], 3),

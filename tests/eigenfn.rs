@@ -191,7 +191,7 @@ fn staircase_around(
 
 #[test]
 fn shift_relation_on_independent_routes() {
-    // χ(τ̃z̃) = −y·χ(z̃), τ̃(z, y) = (z − 2πi, y) (MATH.md §5), with χ(τ̃z̃) integrated along its own
+    // χ(τ̃z̃) = −y·χ(z̃), τ̃(z, y) = (z − 2πi, y) (docs/MATHEMATICS.md §5), with χ(τ̃z̃) integrated along its own
     // route: a staircase that encloses exactly the member b of the β pair (periods::beta_loop)
     // other than the branch point b₀ the eigenfunction went around to reach the other sheet
     // (Eigenfunction::sheet_branch_point). That route meets the point over z − 2πi on the sheet
@@ -260,7 +260,7 @@ fn shift_relation_on_independent_routes() {
 #[test]
 fn reality_rules_hold_for_every_family_that_has_one() {
     // e^{−ikr²/(8π)} ψ(r) is real up to a constant when φ is invariant under m ↦ (m₁ + k m₂, −m₂)
-    // (an antiunitary symmetry of Ô; MATH.md §2 states k = 0 for F0 and k = −1 for P2, dP3).
+    // (an antiunitary symmetry of Ô; docs/MATHEMATICS.md §2 states k = 0 for F0 and k = −1 for P2, dP3).
     // Measured for all 15 families at level 1; the rule is checked, and where a family has none
     // the test records it.
     use regwave::eigenfunction::phase::{reality_factor, reality_rule};
@@ -321,7 +321,7 @@ fn reality_rules_hold_for_every_family_that_has_one() {
 #[test]
 fn decay_rates_on_the_real_line() {
     // |ψ| ~ e^{−|r|} on both sides for F0 and dP3; for P2 e^{−r} as r → +∞ and e^{r/2} as
-    // r → −∞ (MATH.md §2, x → 0 is a branch point of P2): fitted slopes within 2 %.
+    // r → −∞ (docs/MATHEMATICS.md §2, x → 0 is a branch point of P2): fitted slopes within 2 %.
     let cases = [("F0", [1.0, 1.0]), ("dP3", [1.0, 1.0]), ("P2", [0.5, 1.0])];
     for (id, want) in cases {
         let l = family(id);
@@ -342,7 +342,7 @@ fn decay_rates_on_the_real_line() {
 
 /// The documented decay law of every strip family at level 1 (DEVELOPERS.md, "Measured decay of
 /// ψ on R"): the kind of each end `[r → −∞, r → +∞]`. |ψ| ~ e^{−|r|/2} at a branched end, and
-/// e^{−|r|} otherwise, with a prefactor |r| at a merging end. MATH.md §2 states the rates of P2
+/// e^{−|r|} otherwise, with a prefactor |r| at a merging end. docs/MATHEMATICS.md §2 states the rates of P2
 /// (1/2 on the left, where x → 0 is a branch point; 1 on the right) and of F0 and dP3 (1 on both
 /// sides); the other rows are this project's measurement.
 fn documented_ends() -> [(&'static str, [regwave::curve::cover::EndRoots; 2]); 15] {

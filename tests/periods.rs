@@ -166,7 +166,7 @@ fn homologous_beta_loops_give_the_same_periods() {
 fn loops_around_a_puncture_give_integer_multiples_of_two_pi_i_squared() {
     // dP3: A = 1 + x and C = 1/x + 1 vanish at x = −1. On a small circle around z = 2πi the
     // regulator integral is 2πi·Res(z d log y) = (2πi)²·(order of y there) and Ω = 0 (tame
-    // symbols 1: MATH.md §4).
+    // symbols 1: docs/MATHEMATICS.md §4).
     let l = family("dP3");
     let bits = 128;
     let curve = Curve::new(&l, Complex::with_val(bits, 50)).unwrap();

@@ -271,7 +271,7 @@ fn lattice_width_matches_exhaustive_search() {
 
 #[test]
 fn lattice_width_of_known_polygons_and_of_large_images() {
-    // Width 3 for the 9-point triangle, 2 for the others (MATH.md §1).
+    // Width 3 for the 9-point triangle, 2 for the others (docs/MATHEMATICS.md §1).
     let big = Polygon::from_points(&[[2, -1], [-1, 2], [-1, -1]]).unwrap();
     assert_eq!(big.lattice_width().0, 3);
     assert_eq!(hexagon().lattice_width().0, 2);

@@ -1,4 +1,4 @@
-//! The checks of MATH.md §7 as figures, each with a negative companion that makes it fail.
+//! The checks of docs/MATHEMATICS.md §7 as figures, each with a negative companion that makes it fail.
 
 use num_complex::Complex64;
 use regwave::checks::matching::{match_moduli, Unmatched};
@@ -37,7 +37,7 @@ fn eig(id: &str, a: f64) -> Eigenfunction<Complex64> {
 
 #[test]
 fn single_valuedness_holds_at_every_family_attractor_and_fails_off_it() {
-    // Route dependence and Cauchy defect (MATH.md §5 negative controls) for the ground state of
+    // Route dependence and Cauchy defect (docs/MATHEMATICS.md §5 negative controls) for the ground state of
     // all 15 strip families: small at the attractor modulus, ≥ 1e-8 at a(1 + 1e-6).
     for f in catalogue::all().iter().filter(|f| f.applicable) {
         let l = family(f.id);
@@ -185,7 +185,7 @@ fn zeros_inside_equal_the_level_for_real_and_complex_families() {
 #[test]
 fn nu_scan_finds_every_attractor_modulus_of_the_window() {
     // ν increases from the threshold and crosses 1, 2, 3 below the level-3 eigenvalue's upper
-    // neighbour (MATH.md §4 checked values for F0: a₀ = 17.8466…, a₁ = 70.4280…).
+    // neighbour (docs/MATHEMATICS.md §4 checked values for F0: a₀ = 17.8466…, a₁ = 70.4280…).
     let scan = nu_scan::nu_scan(&family("F0"), 300.0, 60).unwrap();
     assert!(scan.increasing);
     let ks: Vec<i64> = scan.crossings.iter().map(|c| c.1).collect();
@@ -228,7 +228,7 @@ fn truncated_precision_breaks_the_precision_ladder() {
     // to 17 digits (at 40-digit arithmetic) it differs by more than 1e-20, and the route
     // dependence at 40 digits sees the truncation too (negative companions of the precision
     // ladder). The eigen-equation residual does not: it stays at 1e-49 for the truncated modulus
-    // (measured), because the shift routes never change sheet — MATH.md §5.
+    // (measured), because the shift routes never change sheet — docs/MATHEMATICS.md §5.
     use regwave::numerics::complex::CNum;
     use regwave::precision::{bits_for_digits, with_guard};
     use rug::Complex;
@@ -281,7 +281,7 @@ fn truncated_precision_breaks_the_precision_ladder() {
 
 #[test]
 fn tail_zeros_follow_the_root_exponent_gap() {
-    // Beyond the turning points ψ keeps oscillating while it decays (MATH.md §2: for F0 the zeros
+    // Beyond the turning points ψ keeps oscillating while it decays (docs/MATHEMATICS.md §2: for F0 the zeros
     // are 2π²/|r| apart). At an end where the two roots separate, y₁ ~ x^{m₁}, y₂ ~ x^{m₂}, the
     // exponents of χ on the two sheets differ by ≈ Δm r²/(4π), so zeros are 4π²/(Δm|r|) apart;
     // where the roots meet at the end there is no sustained oscillation. Checked for every family

@@ -1,6 +1,6 @@
 //! The audit of a family: every attractor modulus in a window matched to an eigenvalue of the
 //! independent spectrum and every eigenvalue to an attractor modulus, and for each level the
-//! eigenfunction with all the checks of MATH.md §7.
+//! eigenfunction with all the checks of docs/MATHEMATICS.md §7.
 //!
 //! # Method
 //! 1. The independent spectrum ([`crate::operator::spectrum`]) for levels 0..K+1; the window is
@@ -32,7 +32,7 @@
 //! [`AuditError`].
 //!
 //! # References
-//! MATH.md §3–7; attractor moduli are eigenvalues (proven), every eigenvalue an attractor modulus
+//! docs/MATHEMATICS.md §3–7; attractor moduli are eigenvalues (proven), every eigenvalue an attractor modulus
 //! (conjectured): the two directions are checked separately for that reason.
 
 use crate::checks::level::{

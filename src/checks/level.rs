@@ -213,7 +213,7 @@ pub struct Check {
     pub spectrum_bits: u32,
 }
 
-/// Runs every check of MATH.md §7 on one eigenfunction (orthogonality needs several levels: see
+/// Runs every check of docs/MATHEMATICS.md §7 on one eigenfunction (orthogonality needs several levels: see
 /// [`run`]). For a modulus that is not an attractor modulus (allowed explicitly) the level is the
 /// nearest one, ν − 1 rounded.
 ///

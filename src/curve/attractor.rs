@@ -14,7 +14,7 @@
 //! # Level labels
 //! With the β rule of [`crate::curve::periods`], **ν(a_n) = n + 1 for all 15 strip families**
 //! ([`LEVEL_OFFSET`]): established against the independent harmonic-oscillator spectrum for
-//! levels 0..5 of every family (`tests/attractor.rs`); MATH.md states it for F0, P2, dP3.
+//! levels 0..5 of every family (`tests/attractor.rs`; `docs/MATHEMATICS.md` §4).
 //!
 //! # Accuracy
 //! Limited by the working precision only (periods to working precision, series α with a
@@ -24,7 +24,7 @@
 //! [`AttractorError`].
 //!
 //! # References
-//! Attractor points and the eigenvalues at ħ = 2π: MATH.md §4; the asymptotics from the
+//! Attractor points and the eigenvalues at ħ = 2π: docs/MATHEMATICS.md §4; the asymptotics from the
 //! perturbative quantization volumes, "Topological strings from quantum mechanics",
 //! arXiv:1410.3382 (2014).
 

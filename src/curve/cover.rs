@@ -448,7 +448,7 @@ impl<T: CNum> Curve<T> {
     /// separate end (> 0) it is the difference Δm of the exponents of the two roots,
     /// y₁ ~ x^{±(e₀ − e₁)} and y₂ ~ x^{±(e₋₁ − e₀)}, which sets the oscillation of ψ in that tail:
     /// the exponents of χ on the two sheets differ by ≈ Δm r²/(4π), so successive zeros are
-    /// ≈ 4π²/(Δm |r|) apart (F0: Δm = 2, the 2π²/|r| of MATH.md §2; measured for all 15
+    /// ≈ 4π²/(Δm |r|) apart (F0: Δm = 2, the 2π²/|r| of docs/MATHEMATICS.md §2; measured for all 15
     /// families, `zeros::tail_zeros`).
     pub fn end_exponent_gaps(&self) -> [i64; 2] {
         let extreme = |u: &Univariate, side: i64| {

@@ -528,7 +528,7 @@ mod tests {
 
     #[test]
     fn nu_is_one_at_the_checked_ground_states() {
-        // MATH.md §4 checked values: a₀ of F0, P2 and the hexagon give ν = 1 (level 0 ↔ ν = n + 1).
+        // docs/MATHEMATICS.md §4 checked values: a₀ of F0, P2 and the hexagon give ν = 1 (level 0 ↔ ν = n + 1).
         let cases = [
             (
                 lp(vec![([1, 0], 1), ([0, 1], 1), ([-1, 0], 1), ([0, -1], 1)]),

@@ -6,7 +6,7 @@
 //! `ψ(z) = (χ(z̃) − χ(ι̃z̃)) / D(z̃)`,
 //! independent of the sheet (D changes sign under ι̃), single valued in z and analytic in the
 //! strip |Im z| < 2π exactly when a is an attractor modulus; then ψ on R is an eigenfunction,
-//! Ôψ = aψ (MATH.md §5).
+//! Ôψ = aψ (docs/MATHEMATICS.md §5).
 //!
 //! # Conventions
 //! - Base point z̃₀ = (z₀, y₀) on the *spine* Im z = c (c chosen per family in (0, 2π) as far as
@@ -38,7 +38,7 @@
 //! [`EigenError`].
 //!
 //! # References
-//! MATH.md §5 (the construction, and the checks it was confirmed with).
+//! docs/MATHEMATICS.md §5 (the construction, and the checks it was confirmed with).
 
 use crate::curve::continuation::{continue_along, continue_sheet, March, PathIntegrals};
 use crate::curve::cover::{CoverError, Curve, Point, Singular, SingularKind};

@@ -27,7 +27,7 @@ use num_complex::Complex64;
 /// (r, p) ↦ (r, k r − p), implemented at ħ = 2π by the antiunitary Θ_k = e^{ikr²/(4π)}K (K complex
 /// conjugation), which then commutes with Ô; so an eigenfunction satisfies Θ_k ψ = cψ and
 /// **e^{−ikr²/(8π)} ψ(r) is real up to a constant**. k = 0 for F0 (ψ real), k = −1 for P2 and dP3
-/// (e^{ir²/(8π)}ψ real, MATH.md §2). None when no such k exists (then the phase profile is the
+/// (e^{ir²/(8π)}ψ real, docs/MATHEMATICS.md §2). None when no such k exists (then the phase profile is the
 /// information to report).
 pub fn reality_rule(laurent: &Laurent) -> Option<i64> {
     let terms = laurent.terms();

@@ -24,7 +24,7 @@ pub struct Pole {
     pub order: usize,
 }
 
-/// Where ψ has poles in the closed strip |Im z| ≤ 2π (MATH.md §2: families with a horizontal top
+/// Where ψ has poles in the closed strip |Im z| ≤ 2π (docs/MATHEMATICS.md §2: families with a horizontal top
 /// or bottom edge): at +2πi of order ℓ_C and at −2πi of order ℓ_A, the orders of the zeros of C
 /// and A at x = −1 (measured, `examples/pole_probe.rs`: |ψ(±2πi + ε)| ∝ ε^{−ℓ} for the eight
 /// families with punctures probed).

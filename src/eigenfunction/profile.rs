@@ -31,7 +31,7 @@
 //! [`ProfileError`].
 //!
 //! # References
-//! MATH.md §5–7.
+//! docs/MATHEMATICS.md §5–7.
 
 use crate::checks::residual::{eigen_equation_residual, Residual};
 use crate::curve::attractor::{self, AttractorError};

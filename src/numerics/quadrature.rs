@@ -140,7 +140,7 @@ pub fn rule_f64(n: usize) -> Arc<RuleF64> {
 }
 
 /// Number of nodes for `digits` decimal digits per step of a path whose steps stay within
-/// 0.3 of the distance to the nearest singularity (MATH.md §6: ≈ 0.55·digits + 6).
+/// 0.3 of the distance to the nearest singularity (docs/MATHEMATICS.md §6: ≈ 0.55·digits + 6).
 pub fn nodes_for_digits(digits: f64) -> usize {
     (0.55 * digits + 6.0).ceil() as usize
 }

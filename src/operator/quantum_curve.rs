@@ -24,7 +24,7 @@
 //!
 //! # References
 //! "Topological strings from quantum mechanics", Annales Henri Poincaré 17 (2016), arXiv:1410.3382
-//! (the operators); the ħ = 2π shift form as in MATH.md §2.
+//! (the operators); the ħ = 2π shift form as in docs/MATHEMATICS.md §2.
 
 use crate::curve::constant_terms::Term;
 use crate::curve::laurent::{Laurent, LaurentError};
