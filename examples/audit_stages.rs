@@ -24,7 +24,9 @@ fn main() {
         spectrum_basis: 200,
         spectrum_max_basis: 300,
     };
-    let tick = |what: &str| eprintln!("{:7.2} s  {what}", start.elapsed().as_secs_f64());
+    let tick = |p: &regwave::progress::Progress| {
+        eprintln!("{:7.2} s  {}", start.elapsed().as_secs_f64(), p.stage)
+    };
     let a = audit::run(&l, &options, &tick).expect("audit");
     for lv in &a.levels {
         println!(

@@ -42,6 +42,7 @@ pub mod numerics;
 pub mod operator;
 pub mod output;
 pub mod precision;
+pub mod progress;
 
 /// The version of this tool, recorded in every output.
 pub const TOOL_VERSION: &str = env!("CARGO_PKG_VERSION");

@@ -27,7 +27,7 @@ pub const LOG2_10: f64 = std::f64::consts::LOG2_10;
 #[non_exhaustive]
 pub enum PrecisionError {
     /// `digits` outside `[MIN_DIGITS, MAX_DIGITS]`.
-    #[error("--digits {digits} is outside the supported range [{min}, {max}]")]
+    #[error("{digits} digits is outside the supported range [{min}, {max}]")]
     DigitsOutOfRange { digits: u32, min: u32, max: u32 },
 }
 

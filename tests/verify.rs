@@ -238,7 +238,7 @@ fn truncated_precision_breaks_the_precision_ladder() {
         .clone();
     let truncated = rug::Float::with_val(
         400,
-        rug::Float::parse(regwave::output::report::decimal(&full, 17)).unwrap(),
+        rug::Float::parse(regwave::output::decimal::decimal(&full, 17)).unwrap(),
     );
     let build = |a: &rug::Float, digits: u32| {
         let bits = with_guard(bits_for_digits(digits as f64));

@@ -48,6 +48,7 @@ use crate::eigenfunction::construction::EigenError;
 use crate::eigenfunction::profile::{self, ProfileError, ProfileOptions, Target};
 use crate::operator::spectrum::{self, SpectrumError, SpectrumOptions};
 use crate::precision::{bits_for_digits, with_guard};
+use crate::progress::{Counter, Observer, Stage};
 use rayon::prelude::*;
 use std::ops::RangeInclusive;
 use thiserror::Error;
@@ -114,16 +115,19 @@ pub struct Audit {
     pub spectrum_bits: u32,
 }
 
-/// Runs the audit; `progress` is told of every finished stage (for a progress bar).
+/// Runs the audit; `progress` is told of every finished stage ([`Stage::Spectrum`],
+/// [`Stage::NuScan`], [`Stage::AttractorModuli`], one [`Stage::Level`] per level,
+/// [`Stage::NegativeControl`]: levels + 4 in all).
 ///
 /// # Errors
 /// See [`AuditError`].
 pub fn run(
     laurent: &Laurent,
     options: &AuditOptions,
-    progress: &(dyn Fn(&str) + Sync),
+    progress: Observer<'_>,
 ) -> Result<Audit, AuditError> {
     let (lo, hi) = (*options.levels.start(), *options.levels.end());
+    let stages = Counter::new(progress, hi - lo + 5);
     let spec = spectrum::solve(
         laurent,
         &SpectrumOptions {
@@ -134,19 +138,19 @@ pub fn run(
             squeeze: 1.0,
         },
     )?;
-    progress("independent spectrum");
+    stages.finished(Stage::Spectrum);
     let e = |k: usize| spec.levels[k].value.to_f64();
     let window_top = (e(hi) * e(hi + 1)).sqrt();
     let (_, threshold) = laurent.classical_minimum();
     let scan = nu_scan::nu_scan(laurent, window_top, 48 + 12 * (hi + 1))?;
-    progress("nu scan");
+    stages.finished(Stage::NuScan);
     let attractors = attractor::solve_levels(laurent, lo..=hi, options.digits.max(20))?;
-    progress("attractor moduli");
+    stages.finished(Stage::AttractorModuli);
     let levels: Vec<LevelAudit> = attractors
         .par_iter()
         .map(|at| {
             let audit = audit_level(laurent, at, &spec, options);
-            progress(&format!("level {}", at.level));
+            stages.finished(Stage::Level(at.level));
             audit
         })
         .collect::<Result<_, _>>()?;
@@ -166,7 +170,7 @@ pub fn run(
         }
     }
     let negative_control = negative_control(laurent, &levels[0], options.perturbation)?;
-    progress("negative control");
+    stages.finished(Stage::NegativeControl);
     let top = &attractors[attractors.len() - 1].modulus;
     let bits = with_guard(bits_for_digits(options.digits.max(20) as f64));
     let terms = laurent.constant_terms(2000)?;

@@ -49,6 +49,7 @@ use crate::numerics::complex::CNum;
 use crate::numerics::serial;
 use crate::operator::quantum_curve::QuantumCurve;
 use crate::precision::{bits_for_digits, digits_for_bits, with_guard, MAX_DIGITS};
+use crate::progress::{Counter, Observer, Stage};
 use num_complex::Complex64;
 use rug::Float;
 use thiserror::Error;
@@ -69,7 +70,7 @@ pub enum ProfileError {
     #[error(transparent)]
     Selection(#[from] SelectionError),
     /// The given modulus is not an attractor modulus.
-    #[error("the modulus {modulus} is not an attractor modulus: nu = {nu:.12}, {distance:.3e} from the nearest integer {nearest}; give --level n, or --allow-non-attractor to build anyway (the result is then not an eigenfunction)")]
+    #[error("the modulus {modulus} is not an attractor modulus: nu = {nu:.12}, {distance:.3e} from the nearest integer {nearest} (a function built there is not an eigenfunction)")]
     NotAttractor {
         modulus: String,
         nu: f64,
@@ -193,10 +194,11 @@ pub fn build(
     target: &Target,
     options: &ProfileOptions,
 ) -> Result<Profile, ProfileError> {
-    build_observed(laurent, target, options, &|_| {})
+    build_observed(laurent, target, options, &crate::progress::quiet)
 }
 
-/// As [`build`], telling `progress` of every finished stage ("modulus", then "sampled" once per
+/// As [`build`], telling `progress` of every finished stage ([`Stage::Modulus`], then
+/// [`Stage::Sampled`] once per
 /// sampling pass).
 ///
 /// # Errors
@@ -205,11 +207,12 @@ pub fn build_observed(
     laurent: &Laurent,
     target: &Target,
     options: &ProfileOptions,
-    progress: &(dyn Fn(&str) + Sync),
+    progress: Observer<'_>,
 ) -> Result<Profile, ProfileError> {
     let requested = options.digits as f64;
     let resolved = resolve(laurent, target, options)?;
-    progress("modulus");
+    let stages = Counter::new(progress, 2);
+    stages.finished(Stage::Modulus);
     // Digits the exponential of the regulator integral costs.
     let lambda = lambda_estimate(laurent, resolved.modulus.to_f64())?;
     let lost = lambda.max(1.0).log10();
@@ -222,7 +225,7 @@ pub fn build_observed(
         requested + lost
     };
     let mut profile = sample_at(laurent, target, &resolved, work_digits, double, options)?;
-    progress("sampled");
+    stages.finished(Stage::Sampled);
     // The loss is only measurable below the working precision, so the check repeats (at most
     // three times) until at least DIGITS_LEFT_MIN digits are left everywhere on R. On the strip
     // lines far out at high levels |ψ| is astronomically small against |χ|: their accuracy is
@@ -239,7 +242,7 @@ pub fn build_observed(
             .ceil()
             .min(MAX_DIGITS as f64);
         profile = sample_at(laurent, target, &resolved, need, false, options)?;
-        progress("sampled again at a higher precision");
+        stages.finished(Stage::Sampled);
     }
     profile.lambda_digits_lost = lost;
     Ok(profile)

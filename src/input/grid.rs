@@ -1,5 +1,16 @@
 //! Sampling grids of real parts, read from text `R0:R1:N`.
 
+use thiserror::Error;
+
+/// A grid that cannot be used, with the reason.
+#[derive(Debug, Clone, PartialEq, Error)]
+#[non_exhaustive]
+pub enum GridError {
+    /// Malformed, empty, reversed, non-finite or with a point count out of range.
+    #[error("{reason}")]
+    Invalid { reason: String },
+}
+
 /// A regular grid `R0:R1:N` of real parts (N ≥ 2 points, R0 < R1).
 #[derive(Debug, Clone, Copy, PartialEq)]
 pub struct Grid {
@@ -12,8 +23,12 @@ impl Grid {
     /// Parses `R0:R1:N`.
     ///
     /// # Errors
-    /// A message saying what is wrong (empty, reversed, too few points, malformed).
-    pub fn parse(text: &str) -> Result<Grid, String> {
+    /// [`GridError::Invalid`] saying what is wrong (empty, reversed, too few points, malformed).
+    pub fn parse(text: &str) -> Result<Grid, GridError> {
+        Self::read(text).map_err(|reason| GridError::Invalid { reason })
+    }
+
+    fn read(text: &str) -> Result<Grid, String> {
         let parts: Vec<&str> = text.trim().split(':').collect();
         if parts.len() != 3 {
             return Err(format!(

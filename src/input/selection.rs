@@ -27,9 +27,11 @@ pub enum SelectionError {
     Catalogue(#[from] CatalogueError),
     #[error(transparent)]
     Laurent(#[from] LaurentError),
-    #[error("give either --family or --vertices, not both")]
+    /// Both a catalogue id and a vertex list were given.
+    #[error("both a catalogue id and a vertex list were given; give one of them")]
     Ambiguous,
-    #[error("give --family ID or --vertices \"(1,0),(0,1),(-1,-1)\"")]
+    /// Neither a catalogue id nor a vertex list was given.
+    #[error("no family was given: a catalogue id or a vertex list is needed")]
     Missing,
     #[error("cannot read the level range {text:?}: {reason}; use A..B (inclusive, A ≤ B) or a single level n")]
     Levels { text: String, reason: String },

@@ -1,6 +1,6 @@
 //! The figures of an audit or a profile: the data of [`crate::checks::audit`] and [`crate::eigenfunction::profile`]
-//! laid out for [`crate::output::plot`]. Pure: returns SVG documents with file stems and captions; the
-//! binary writes them (and their PNG versions on request).
+//! laid out for [`crate::output::plot`]. Pure: returns SVG documents with file stems and captions, and
+//! the files to write (with PNG versions on request).
 //!
 //! # Conventions
 //! - Profiles: with a reality rule k the real function e^{−ikr²/(8π)}ψ is drawn (its real part
@@ -12,8 +12,10 @@
 //!   each level as the floor line when all levels share it.
 
 use crate::checks::audit::Audit;
+use crate::curve::laurent::Laurent;
 use crate::eigenfunction::phase;
-use crate::eigenfunction::profile::Profile;
+use crate::eigenfunction::profile::{self, Profile, ProfileError};
+use crate::output::files::OutputFile;
 use crate::output::plot::{
     self, AgreementBars, NuCurve, PlotError, ProfileSeries, ResidualSeries, StripMap,
 };
@@ -196,4 +198,73 @@ pub fn strip(
 /// A family id usable in a file name ("F0*" → "F0-dual").
 pub fn file_id(family: &str) -> String {
     family.replace('*', "-dual")
+}
+
+/// Real parts and imaginary parts of the strip map: 81 × 33 cells, enough to see the zeros and
+/// poles, small enough to commit as SVG.
+pub fn strip_axes() -> (Vec<f64>, Vec<f64>) {
+    let two_pi = 2.0 * std::f64::consts::PI;
+    let re = (0..=80).map(|k| -8.0 + 0.2 * k as f64).collect();
+    let im = (0..=32)
+        .map(|k| -two_pi + two_pi * k as f64 / 16.0)
+        .collect();
+    (re, im)
+}
+
+/// Why the figures of an audit could not be made.
+#[derive(Debug, Clone, PartialEq, thiserror::Error)]
+#[non_exhaustive]
+pub enum FiguresError {
+    #[error(transparent)]
+    Plot(#[from] PlotError),
+    #[error(transparent)]
+    Profile(#[from] ProfileError),
+}
+
+/// The per-family figures of an audit: profiles, residuals, ν(a), and the strip map of the
+/// middle audited level.
+///
+/// # Errors
+/// See [`FiguresError`].
+pub fn family_figures(
+    family: &str,
+    laurent: &Laurent,
+    audit: &Audit,
+) -> Result<Vec<Figure>, FiguresError> {
+    let profiles: Vec<&Profile> = audit.levels.iter().map(|l| &l.profile).collect();
+    let chosen = &audit.levels[audit.levels.len() / 2].profile;
+    let (re, im) = strip_axes();
+    let values = profile::strip_map(laurent, chosen, &re, &im)?;
+    Ok(vec![
+        self::profiles(family, &profiles)?,
+        residuals(family, &profiles)?,
+        nu(family, audit)?,
+        strip(family, chosen, &re, &im, values)?,
+    ])
+}
+
+/// The SVG files of the figures, and their PNG versions when asked.
+///
+/// # Errors
+/// See [`PlotError`] (the PNG rendering).
+pub fn figure_files(figures: &[Figure], png: bool) -> Result<Vec<OutputFile>, PlotError> {
+    let mut out = Vec::new();
+    for f in figures {
+        out.push((format!("{}.svg", f.name), f.svg.clone().into_bytes()));
+        if png {
+            out.push((format!("{}.png", f.name), plot::to_png(&f.svg, PNG_WIDTH)?));
+        }
+    }
+    Ok(out)
+}
+
+/// Width of PNG figures in pixels.
+pub const PNG_WIDTH: u32 = 1280;
+
+/// Names and captions, for [`crate::output::markdown::figure_links`].
+pub fn captions(figures: &[Figure]) -> Vec<(String, String)> {
+    figures
+        .iter()
+        .map(|f| (f.name.clone(), f.caption.clone()))
+        .collect()
 }

@@ -1,0 +1,252 @@
+//! `tour`: the built-in demonstration — audits of F0, P2 and dP3 (levels 0..4, double precision
+//! where it suffices) and one 40-digit eigenfunction with its residual, written as a report with
+//! figures, the catalogue and the 40-digit samples.
+
+use super::audit::{run_audit, Options as AuditOptions};
+use super::build::build_files;
+use super::{CommandError, FamilyRequest, Outcome};
+use crate::checks::audit::Audit;
+use crate::eigenfunction::profile::{self, Profile, ProfileOptions, Target};
+use crate::input::grid::Grid;
+use crate::input::selection::Selection;
+use crate::lattice::catalogue;
+use crate::output::files::{ensure_writable, write_all_atomic, OutputFile};
+use crate::output::records::{
+    pretty, AuditRecord, Document, FamiliesRecord, Inputs, ProfileRecord, NOTE,
+};
+use crate::output::tables::families_table;
+use crate::output::{csv, figures, markdown};
+use crate::progress::{quiet, Counter, Observer, Stage};
+use rayon::prelude::*;
+use serde::Serialize;
+use std::ops::RangeInclusive;
+use std::path::PathBuf;
+use std::time::Instant;
+
+/// The audited families.
+pub const TOUR_FAMILIES: [&str; 3] = ["F0", "P2", "dP3"];
+/// The audited levels.
+pub const TOUR_LEVELS: RangeInclusive<usize> = 0..=4;
+/// The grid of the audits.
+pub const TOUR_GRID: &str = "-12:12:241";
+/// Digits of the audits (double precision where it suffices).
+pub const TOUR_DIGITS: u32 = 16;
+/// The high-precision eigenfunction: family, level, digits, grid.
+pub const TOUR_HIGH: (&str, usize, u32, &str) = ("F0", 2, 40, "-10:10:201");
+
+/// Where the tour writes.
+#[derive(Debug, Clone)]
+#[cfg_attr(feature = "cli", derive(clap::Args))]
+pub struct TourRequest {
+    /// Output directory.
+    #[cfg_attr(feature = "cli", arg(long, default_value = "out/tour"))]
+    pub out: PathBuf,
+    /// Also write PNG versions of the figures.
+    #[cfg_attr(feature = "cli", arg(long))]
+    pub png: bool,
+}
+
+#[derive(Serialize)]
+struct HighInputs {
+    family: &'static str,
+    level: usize,
+    digits: u32,
+    grid: &'static str,
+}
+
+#[derive(Serialize)]
+struct TourInputs {
+    families: [&'static str; 3],
+    levels: [usize; 2],
+    grid: &'static str,
+    digits: u32,
+    high_precision: HighInputs,
+}
+
+#[derive(Serialize)]
+struct HighOptions {
+    level: usize,
+    grid: &'static str,
+    strip: bool,
+    digits: u32,
+}
+
+type AuditDocument = Document<AuditRecord, Inputs<AuditOptions>>;
+type ProfileDocument = Document<ProfileRecord, Inputs<HighOptions>>;
+
+#[derive(Serialize)]
+struct TourRecord {
+    audits: Vec<AuditDocument>,
+    high_precision: ProfileDocument,
+    all_matched: bool,
+}
+
+/// Runs the tour; `progress` is told when each family is audited and when the high-precision
+/// eigenfunction is done.
+///
+/// # Errors
+/// See [`CommandError`]; the output directory is checked for writability before computing.
+pub fn tour(request: &TourRequest, progress: Observer<'_>) -> Result<Outcome, CommandError> {
+    let start = Instant::now();
+    ensure_writable(&request.out)?;
+    let grid = Grid::parse(TOUR_GRID)?.values();
+    let selections: Vec<Selection> = TOUR_FAMILIES
+        .iter()
+        .map(|id| FamilyRequest::catalogue(id).resolve())
+        .collect::<Result<_, _>>()?;
+    let stages = Counter::new(progress, TOUR_FAMILIES.len() + 1);
+    let audits: Vec<(Audit, f64)> = selections
+        .par_iter()
+        .map(|sel| {
+            let done = run_audit(sel, TOUR_LEVELS, TOUR_DIGITS, &grid, &quiet);
+            stages.finished(Stage::FamilyAudited(sel.family.id));
+            done
+        })
+        .collect::<Result<_, _>>()?;
+    let high_start = Instant::now();
+    let high_request = FamilyRequest::catalogue(TOUR_HIGH.0);
+    let high_sel = high_request.resolve()?;
+    let high = profile::build(
+        &high_sel.laurent,
+        &Target::Level(TOUR_HIGH.1),
+        &ProfileOptions {
+            grid: Grid::parse(TOUR_HIGH.3)?.values(),
+            strip: true,
+            digits: TOUR_HIGH.2,
+            allow_non_attractor: false,
+        },
+    )?;
+    let high_elapsed = high_start.elapsed().as_secs_f64();
+    stages.finished(Stage::HighPrecision);
+    let figs = tour_figures(&selections, &audits, &high)?;
+    let elapsed = start.elapsed().as_secs_f64();
+    let family_docs: Vec<AuditDocument> = selections
+        .iter()
+        .zip(&audits)
+        .map(|(sel, (audit, t))| {
+            let inputs = Inputs {
+                family: FamilyRequest::catalogue(sel.family.id).inputs(sel),
+                options: AuditOptions {
+                    levels: [*TOUR_LEVELS.start(), *TOUR_LEVELS.end()],
+                    digits: TOUR_DIGITS,
+                    grid: TOUR_GRID.to_string(),
+                },
+            };
+            let bits = AuditRecord::precision_bits(audit);
+            Document::new(AuditRecord::new(sel.family.id, audit), inputs, bits, *t)
+        })
+        .collect();
+    let high_files = build_files(true);
+    let high_doc = Document::new(
+        ProfileRecord::new(&high, TOUR_HIGH.0, &high_files),
+        Inputs {
+            family: high_request.inputs(&high_sel),
+            options: HighOptions {
+                level: TOUR_HIGH.1,
+                grid: TOUR_HIGH.3,
+                strip: true,
+                digits: TOUR_HIGH.2,
+            },
+        },
+        Some(high.precision_bits),
+        high_elapsed,
+    );
+    let high_json = pretty(&high_doc);
+    let precision_bits = audits
+        .iter()
+        .flat_map(|a| a.0.levels.iter().map(|l| l.profile.precision_bits))
+        .chain([high.precision_bits])
+        .max();
+    let doc = Document::new(
+        TourRecord {
+            audits: family_docs,
+            high_precision: high_doc,
+            all_matched: audits.iter().all(|a| a.0.unmatched.is_empty()),
+        },
+        TourInputs {
+            families: TOUR_FAMILIES,
+            levels: [*TOUR_LEVELS.start(), *TOUR_LEVELS.end()],
+            grid: TOUR_GRID,
+            digits: TOUR_DIGITS,
+            high_precision: HighInputs {
+                family: TOUR_HIGH.0,
+                level: TOUR_HIGH.1,
+                digits: TOUR_HIGH.2,
+                grid: TOUR_HIGH.3,
+            },
+        },
+        precision_bits,
+        elapsed,
+    )
+    .noting(NOTE);
+    let json = pretty(&doc);
+    let sections: Vec<(&str, &Audit, f64)> = TOUR_FAMILIES
+        .iter()
+        .copied()
+        .zip(audits.iter())
+        .map(|(f, (a, t))| (f, a, *t))
+        .collect();
+    let mut md = markdown::tour_markdown(&sections, &high, TOUR_HIGH, high_elapsed, elapsed);
+    md.push_str(markdown::COLUMNS_NOTE);
+    md.push_str(&markdown::figure_links(&figures::captions(&figs)));
+    let all = catalogue::all();
+    let mut files: Vec<OutputFile> = vec![
+        ("report.md".into(), md.clone().into_bytes()),
+        ("report.json".into(), json.clone().into_bytes()),
+        (
+            "families.json".into(),
+            pretty(&FamiliesRecord::new(all)).into_bytes(),
+        ),
+        ("families.txt".into(), families_table(all).into_bytes()),
+    ];
+    files.extend(figures::figure_files(&figs, request.png)?);
+    let dir = format!("psi-{}-{}-{}digits", TOUR_HIGH.0, TOUR_HIGH.1, TOUR_HIGH.2);
+    let samples = [
+        ("psi.csv", csv::samples(&high.grid, &high.real_line)),
+        ("psi_up.csv", csv::samples(&high.grid, &high.upper_line)),
+        ("psi_down.csv", csv::samples(&high.grid, &high.lower_line)),
+        ("psi.json", high_json),
+    ];
+    files.extend(
+        samples
+            .into_iter()
+            .map(|(n, c)| (format!("{dir}/{n}"), c.into_bytes())),
+    );
+    write_all_atomic(&request.out, &files)?;
+    Ok(Outcome {
+        json,
+        text: md,
+        wrote: Some(request.out.clone()),
+        elapsed_s: elapsed,
+        finding: None,
+    })
+}
+
+/// The figures of the tour: each family's, the agreement across families, and the residual of
+/// the high-precision eigenfunction.
+fn tour_figures(
+    selections: &[Selection],
+    audits: &[(Audit, f64)],
+    high: &Profile,
+) -> Result<Vec<figures::Figure>, CommandError> {
+    let mut figs = Vec::new();
+    for (sel, (audit, _)) in selections.iter().zip(audits) {
+        figs.extend(figures::family_figures(sel.family.id, &sel.laurent, audit)?);
+    }
+    let pairs: Vec<(&str, &Audit)> = TOUR_FAMILIES
+        .iter()
+        .copied()
+        .zip(audits.iter().map(|a| &a.0))
+        .collect();
+    figs.push(figures::agreement(&pairs)?);
+    let mut high_fig = figures::residuals(
+        &format!(
+            "{} n = {}, {} digits",
+            TOUR_HIGH.0, TOUR_HIGH.1, TOUR_HIGH.2
+        ),
+        &[high],
+    )?;
+    high_fig.name = format!("residual-{}-{}digits", TOUR_HIGH.0, TOUR_HIGH.2);
+    figs.push(high_fig);
+    Ok(figs)
+}

@@ -1,0 +1,721 @@
+//! The JSON documents of the commands, as typed records built from the results.
+//!
+//! # Conventions
+//! Keys are snake_case and stable. Every document of a computation carries `tool_version`,
+//! `inputs`, `precision_bits` (where a computation ran), `elapsed_s` and a `note` ([`Document`]).
+//! High-precision numbers are decimal strings holding only the digits the computation supports
+//! ([`crate::output::decimal`]); the results themselves serialize every computed digit
+//! ([`crate::numerics::serial`]), which is what a library user gets from `serde_json::to_value`
+//! on a result.
+
+use crate::checks::audit::Audit;
+use crate::checks::level::{Check, LevelAudit, NegativeControl};
+use crate::checks::matching::Unmatched;
+use crate::checks::zeros::{TailZeros, Zeros};
+use crate::curve::attractor::Attractor;
+use crate::curve::laurent::Laurent;
+use crate::curve::periods::Comparison;
+use crate::eigenfunction::poles::Pole;
+use crate::eigenfunction::profile::Profile;
+use crate::lattice::catalogue::Family;
+use crate::lattice::polygon::{LatticePoint, Mat2};
+use crate::operator::spectrum::Spectrum;
+use crate::output::decimal::{decimal, round1, sci, supported_digits};
+use crate::precision::digits_for_bits;
+use crate::TOOL_VERSION;
+use rug::Float;
+use serde::Serialize;
+
+/// What every document says about itself: the body's keys, then the common keys.
+#[derive(Debug, Clone, Serialize)]
+pub struct Document<B: Serialize, I: Serialize> {
+    #[serde(flatten)]
+    pub body: B,
+    pub precision_bits: Option<u32>,
+    pub tool_version: &'static str,
+    pub inputs: I,
+    pub elapsed_s: f64,
+    pub note: &'static str,
+}
+
+impl<B: Serialize, I: Serialize> Document<B, I> {
+    /// A document with the tool version filled in.
+    pub fn new(body: B, inputs: I, precision_bits: Option<u32>, elapsed_s: f64) -> Self {
+        Document {
+            body,
+            precision_bits,
+            tool_version: TOOL_VERSION,
+            inputs,
+            elapsed_s,
+            note: NOTE,
+        }
+    }
+
+    /// With another note.
+    pub fn noting(mut self, note: &'static str) -> Self {
+        self.note = note;
+        self
+    }
+}
+
+/// The note of most documents.
+pub const NOTE: &str = "numerical evidence, not proofs";
+
+/// How a family was selected, and what it resolved to (the `inputs` of every family command).
+#[derive(Debug, Clone, Serialize)]
+pub struct FamilyInputs {
+    pub family: Option<String>,
+    pub vertices: Option<String>,
+    pub coefficients: Option<String>,
+    pub resolved_family: &'static str,
+    pub polygon: Vec<LatticePoint>,
+    pub transform: Option<Mat2>,
+    pub phi: String,
+}
+
+/// The inputs of a command: the family selection and the command's own options.
+#[derive(Debug, Clone, Serialize)]
+pub struct Inputs<O: Serialize> {
+    #[serde(flatten)]
+    pub family: FamilyInputs,
+    #[serde(flatten)]
+    pub options: O,
+}
+
+/// A complex number as `{"re", "im"}` decimal strings.
+#[derive(Debug, Clone, Serialize)]
+pub struct ComplexText {
+    pub re: String,
+    pub im: String,
+}
+
+impl ComplexText {
+    /// `z` with `digits` significant digits in each part.
+    pub fn new(z: &rug::Complex, digits: u32) -> Self {
+        ComplexText {
+            re: decimal(z.real(), digits),
+            im: decimal(z.imag(), digits),
+        }
+    }
+}
+
+/// A double-precision complex number as `{"re", "im"}` numbers.
+#[derive(Debug, Clone, Copy, Serialize)]
+pub struct ComplexNumber {
+    pub re: f64,
+    pub im: f64,
+}
+
+impl From<num_complex::Complex64> for ComplexNumber {
+    fn from(z: num_complex::Complex64) -> Self {
+        ComplexNumber { re: z.re, im: z.im }
+    }
+}
+
+// ---------------------------------------------------------------------------------------------
+// families
+
+/// One catalogue entry.
+#[derive(Debug, Clone, Serialize)]
+pub struct FamilyRecord {
+    pub id: &'static str,
+    pub description: &'static str,
+    pub vertices: &'static [LatticePoint],
+    pub boundary_points: usize,
+    pub dual: &'static str,
+    pub applicable: bool,
+    /// φ as text (null when not applicable).
+    pub phi: Option<String>,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub a: Option<String>,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub b: Option<String>,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub c: Option<String>,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub threshold: Option<f64>,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub series_radius: Option<i64>,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub reason: Option<&'static str>,
+}
+
+impl From<&Family> for FamilyRecord {
+    fn from(f: &Family) -> Self {
+        let mut r = FamilyRecord {
+            id: f.id,
+            description: f.description,
+            vertices: f.vertices,
+            boundary_points: f.boundary_points,
+            dual: f.dual,
+            applicable: f.applicable,
+            phi: None,
+            a: None,
+            b: None,
+            c: None,
+            threshold: None,
+            series_radius: None,
+            reason: None,
+        };
+        if !f.applicable {
+            r.reason = f.reason;
+            return r;
+        }
+        let laurent = Laurent::tempered(&f.polygon());
+        let parts = laurent
+            .strip_parts()
+            .expect("applicable families are in strip form");
+        r.phi = Some(laurent.to_string());
+        r.a = Some(parts.a.render("x"));
+        r.b = Some(parts.b.render("x"));
+        r.c = Some(parts.c.render("x"));
+        r.threshold = Some(laurent.classical_minimum().1);
+        r.series_radius = Some(laurent.coefficient_sum());
+        r
+    }
+}
+
+/// `regwave families --json`.
+#[derive(Debug, Clone, Serialize)]
+pub struct FamiliesRecord {
+    pub families: Vec<FamilyRecord>,
+    pub tool_version: &'static str,
+}
+
+impl FamiliesRecord {
+    /// The catalogue.
+    pub fn new(families: &[Family]) -> Self {
+        FamiliesRecord {
+            families: families.iter().map(FamilyRecord::from).collect(),
+            tool_version: TOOL_VERSION,
+        }
+    }
+}
+
+// ---------------------------------------------------------------------------------------------
+// spectrum
+
+/// One eigenvalue of the independent spectrum, with the digits its error estimate supports.
+#[derive(Debug, Clone, Serialize)]
+pub struct EigenvalueRecord {
+    pub level: usize,
+    pub value: String,
+    pub log_value: String,
+    pub error_estimate: String,
+    pub digits: u32,
+}
+
+/// The oscillator frame.
+#[derive(Debug, Clone, Serialize)]
+pub struct FrameRecord {
+    pub centre: [f64; 2],
+    pub symplectic: [[f64; 2]; 2],
+    pub squeeze: f64,
+    pub threshold: f64,
+}
+
+/// `regwave spectrum --json` (body).
+#[derive(Debug, Clone, Serialize)]
+pub struct SpectrumRecord {
+    pub family: String,
+    pub eigenvalues: Vec<EigenvalueRecord>,
+    pub method: &'static str,
+    pub bases: Vec<usize>,
+    pub frame: FrameRecord,
+    pub real_matrix: bool,
+}
+
+/// The note of spectrum documents.
+pub const SPECTRUM_NOTE: &str =
+    "numerical evidence: error estimates are differences between basis sizes, not bounds";
+
+impl SpectrumRecord {
+    /// The record of `spectrum` with at most `digits` digits per eigenvalue.
+    pub fn new(family: &str, spectrum: &Spectrum, digits: u32) -> Self {
+        let eigenvalues = spectrum
+            .levels
+            .iter()
+            .map(|l| {
+                let d = supported_digits(&l.value, l.error_estimate, digits);
+                let log = Float::with_val(spectrum.working_bits, l.value.ln_ref());
+                EigenvalueRecord {
+                    level: l.level,
+                    value: decimal(&l.value, d),
+                    log_value: decimal(&log, d),
+                    error_estimate: sci(l.error_estimate),
+                    digits: d,
+                }
+            })
+            .collect();
+        SpectrumRecord {
+            family: family.to_string(),
+            eigenvalues,
+            method: "harmonic-oscillator Rayleigh-Ritz",
+            bases: spectrum.bases.clone(),
+            frame: FrameRecord {
+                centre: spectrum.frame.centre,
+                symplectic: spectrum.frame.symplectic,
+                squeeze: spectrum.frame.squeeze,
+                threshold: spectrum.frame.threshold,
+            },
+            real_matrix: spectrum.real_matrix,
+        }
+    }
+}
+
+// ---------------------------------------------------------------------------------------------
+// periods
+
+/// The series values of Ω_α, R_α.
+#[derive(Debug, Clone, Serialize)]
+pub struct SeriesRecord {
+    pub omega_alpha: ComplexText,
+    pub r_alpha: ComplexText,
+    pub error_estimate: String,
+}
+
+/// How the path periods were integrated.
+#[derive(Debug, Clone, Serialize)]
+pub struct PathRecord {
+    pub alpha_error_estimate: String,
+    pub alpha_steps: usize,
+    pub beta_steps: usize,
+    pub beta_error_estimate: String,
+    pub beta_branch_points: [[f64; 2]; 2],
+    pub beta_encloses_puncture: bool,
+}
+
+/// `regwave periods --json` (body).
+#[derive(Debug, Clone, Serialize)]
+pub struct PeriodsRecord {
+    pub family: String,
+    pub omega_alpha: ComplexText,
+    pub omega_beta: ComplexText,
+    pub r_alpha: ComplexText,
+    pub r_beta: ComplexText,
+    pub tau: ComplexText,
+    pub nu: ComplexText,
+    pub nu_derivative: ComplexText,
+    pub nu_error_estimate: String,
+    pub agreement_digits: Option<f64>,
+    pub series: Option<SeriesRecord>,
+    pub series_note: Option<String>,
+    pub path: PathRecord,
+}
+
+/// The note of periods documents.
+pub const PERIODS_NOTE: &str = "numerical evidence: path integrals with a-priori error estimates, series with rigorous tail bounds";
+
+impl PeriodsRecord {
+    /// The record of a comparison, `digits` digits per value.
+    pub fn new(family: &str, c: &Comparison, digits: u32) -> Self {
+        let p = &c.path;
+        let cj = |z: &rug::Complex| ComplexText::new(z, digits);
+        PeriodsRecord {
+            family: family.to_string(),
+            omega_alpha: cj(&p.alpha.omega),
+            omega_beta: cj(&p.beta.omega),
+            r_alpha: cj(&p.alpha.regulator),
+            r_beta: cj(&p.beta.regulator),
+            tau: cj(&p.tau),
+            nu: cj(&p.nu),
+            nu_derivative: cj(&p.nu_da),
+            nu_error_estimate: sci(p.nu_error),
+            agreement_digits: c.agreement_digits.map(|d| (d * 10.0).floor() / 10.0),
+            series: c.series.as_ref().map(|s| SeriesRecord {
+                omega_alpha: cj(&s.omega),
+                r_alpha: cj(&s.regulator),
+                error_estimate: sci(s.error),
+            }),
+            series_note: c.series_note.clone(),
+            path: PathRecord {
+                alpha_error_estimate: sci(p.alpha.error),
+                alpha_steps: p.alpha.steps,
+                beta_steps: p.beta.steps,
+                beta_error_estimate: sci(p.beta.error),
+                beta_branch_points: p.beta_loop.branch_points,
+                beta_encloses_puncture: p.beta_loop.encloses_puncture,
+            },
+        }
+    }
+}
+
+// ---------------------------------------------------------------------------------------------
+// attractors
+
+/// One attractor modulus with its confirmed digits.
+#[derive(Debug, Clone, Serialize)]
+pub struct AttractorRecord {
+    pub level: usize,
+    pub nu: i64,
+    pub modulus: String,
+    pub log_modulus: String,
+    pub digits: u32,
+    pub residual: String,
+    pub imaginary_part_of_nu: String,
+}
+
+impl From<&Attractor> for AttractorRecord {
+    fn from(a: &Attractor) -> Self {
+        AttractorRecord {
+            level: a.level,
+            nu: a.nu,
+            modulus: decimal(&a.modulus, a.digits.max(1)),
+            log_modulus: decimal(&a.log_modulus, a.digits.max(1)),
+            digits: a.digits,
+            residual: sci(a.residual),
+            imaginary_part_of_nu: sci(a.imaginary_part),
+        }
+    }
+}
+
+/// `regwave attractors --json` (body).
+#[derive(Debug, Clone, Serialize)]
+pub struct AttractorsRecord {
+    pub family: String,
+    pub attractors: Vec<AttractorRecord>,
+    pub digits: u32,
+    pub level_rule: &'static str,
+}
+
+/// The note of attractor documents.
+pub const ATTRACTORS_NOTE: &str = "digits are those confirmed by a second solve at higher working precision (numerical evidence, not proofs)";
+
+impl AttractorsRecord {
+    /// The record of a list of attractor moduli requested at `digits`.
+    pub fn new(family: &str, list: &[Attractor], digits: u32) -> Self {
+        AttractorsRecord {
+            family: family.to_string(),
+            attractors: list.iter().map(AttractorRecord::from).collect(),
+            digits,
+            level_rule: "nu(a_n) = n + 1",
+        }
+    }
+}
+
+// ---------------------------------------------------------------------------------------------
+// levels, audits, checks
+
+/// Decay rates at the two ends.
+#[derive(Debug, Clone, Copy, Serialize)]
+pub struct Sides {
+    pub left: f64,
+    pub right: f64,
+}
+
+/// One audited level (the per-level keys of `audit` and `check`).
+#[derive(Debug, Clone, Serialize)]
+pub struct LevelRecord {
+    pub level: usize,
+    pub nu: i64,
+    pub modulus: String,
+    pub modulus_digits: u32,
+    pub spectrum_value: String,
+    pub spectrum_error_estimate: String,
+    pub agreement_digits: f64,
+    pub agreement_cap_digits: f64,
+    pub residual_max: Option<f64>,
+    pub residual_rms: Option<f64>,
+    pub residual_points_with_pole_limits: Option<usize>,
+    pub norm: f64,
+    pub norm_on_grid: f64,
+    pub norm_tail_fraction: f64,
+    pub zeros_inside: usize,
+    pub zeros: Zeros,
+    pub tail_zeros: [TailZeros; 2],
+    pub decay_rate: Sides,
+    pub eigenvector_difference: f64,
+    pub route_dependence: f64,
+    pub cauchy_defect: f64,
+    pub phase_rule_k: Option<i64>,
+    pub phase_rule_max_imaginary_part: Option<f64>,
+    pub lambda: ComplexNumber,
+    pub precision_bits: u32,
+    pub cancellation_digits_lost_on_r: f64,
+}
+
+impl From<&LevelAudit> for LevelRecord {
+    fn from(l: &LevelAudit) -> Self {
+        let p = &l.profile;
+        let spectrum_digits = supported_digits(&l.spectrum_value, l.spectrum_error, 30);
+        LevelRecord {
+            level: l.level,
+            nu: l.nu,
+            modulus: decimal(&p.modulus, p.modulus_digits.max(1)),
+            modulus_digits: p.modulus_digits,
+            spectrum_value: decimal(&l.spectrum_value, spectrum_digits),
+            spectrum_error_estimate: sci(l.spectrum_error),
+            agreement_digits: round1(l.agreement_digits),
+            agreement_cap_digits: round1(l.agreement_cap),
+            residual_max: p.residual.as_ref().map(|r| r.max),
+            residual_rms: p.residual.as_ref().map(|r| r.rms),
+            residual_points_with_pole_limits: p.residual.as_ref().map(|r| r.pole_limits),
+            norm: l.norm,
+            norm_on_grid: l.norm_on_grid,
+            norm_tail_fraction: p.normalization.tail,
+            zeros_inside: l.zeros.count,
+            zeros: l.zeros.clone(),
+            tail_zeros: l.tail_zeros.clone(),
+            decay_rate: Sides {
+                left: p.normalization.decay[0],
+                right: p.normalization.decay[1],
+            },
+            eigenvector_difference: l.eigenvector_difference,
+            route_dependence: l.route_dependence,
+            cauchy_defect: l.cauchy_defect,
+            phase_rule_k: p.rule,
+            phase_rule_max_imaginary_part: p.reality_defect,
+            lambda: p.lambda.into(),
+            precision_bits: p.precision_bits,
+            cancellation_digits_lost_on_r: p.cancellation_digits,
+        }
+    }
+}
+
+/// A modulus and ν there.
+#[derive(Debug, Clone, Copy, Serialize)]
+pub struct ScanStart {
+    pub modulus: f64,
+    pub nu: f64,
+}
+
+/// An integer crossing of ν.
+#[derive(Debug, Clone, Copy, Serialize)]
+pub struct Crossing {
+    pub log_a: f64,
+    pub nu: i64,
+}
+
+/// The ν scan of an audit.
+#[derive(Debug, Clone, Serialize)]
+pub struct ScanRecord {
+    pub points: usize,
+    pub increasing: bool,
+    pub skipped_below: usize,
+    pub start: ScanStart,
+    pub crossings: Vec<Crossing>,
+}
+
+/// Bases and precision of the independent spectrum.
+#[derive(Debug, Clone, Serialize)]
+pub struct SpectrumUsed {
+    pub bases: Vec<usize>,
+    pub precision_bits: u32,
+}
+
+/// `regwave audit --json` (body).
+#[derive(Debug, Clone, Serialize)]
+pub struct AuditRecord {
+    pub family: String,
+    pub levels: Vec<LevelRecord>,
+    pub orthogonality: Vec<Vec<f64>>,
+    pub orthogonality_max: f64,
+    pub normalization_max_deviation: f64,
+    pub unmatched: Vec<Unmatched>,
+    pub all_matched: bool,
+    pub negative_control_defect: f64,
+    pub negative_control: NegativeControl,
+    pub window: [f64; 2],
+    pub eigenvalues_in_window: Vec<f64>,
+    pub nu_scan: ScanRecord,
+    pub period_agreement_digits: Option<f64>,
+    pub diagnostic_precision_bits: u32,
+    pub spectrum: SpectrumUsed,
+}
+
+impl AuditRecord {
+    /// The record of the audit of `family`.
+    pub fn new(family: &str, a: &Audit) -> Self {
+        AuditRecord {
+            family: family.to_string(),
+            levels: a.levels.iter().map(LevelRecord::from).collect(),
+            orthogonality: a.orthogonality.clone(),
+            orthogonality_max: a.orthogonality_max,
+            normalization_max_deviation: a.normalization_max_deviation,
+            unmatched: a.unmatched.clone(),
+            all_matched: a.unmatched.is_empty(),
+            negative_control_defect: a.negative_control.defect(),
+            negative_control: a.negative_control.clone(),
+            window: a.window,
+            eigenvalues_in_window: a.eigenvalues_in_window.clone(),
+            nu_scan: ScanRecord {
+                points: a.scan.log_a.len(),
+                increasing: a.scan.increasing,
+                skipped_below: a.scan.skipped,
+                start: ScanStart {
+                    modulus: a.scan.log_a[0].exp(),
+                    nu: a.scan.nu[0],
+                },
+                crossings: a
+                    .scan
+                    .crossings
+                    .iter()
+                    .map(|c| Crossing {
+                        log_a: c.0,
+                        nu: c.1,
+                    })
+                    .collect(),
+            },
+            period_agreement_digits: a.period_agreement_digits,
+            diagnostic_precision_bits: a.diagnostic_bits,
+            spectrum: SpectrumUsed {
+                bases: a.spectrum_bases.clone(),
+                precision_bits: a.spectrum_bits,
+            },
+        }
+    }
+
+    /// The largest working precision of the audited eigenfunctions.
+    pub fn precision_bits(a: &Audit) -> Option<u32> {
+        a.levels.iter().map(|l| l.profile.precision_bits).max()
+    }
+}
+
+/// `regwave check --json` (body).
+#[derive(Debug, Clone, Serialize)]
+pub struct CheckRecord {
+    pub family: String,
+    pub levels: [LevelRecord; 1],
+    pub negative_control_defect: f64,
+    pub negative_control: NegativeControl,
+    pub nu_distance_to_integer: f64,
+    pub period_agreement_digits: Option<f64>,
+    pub spectrum: SpectrumUsed,
+}
+
+impl CheckRecord {
+    /// The record of the checks of one eigenfunction of `family`.
+    pub fn new(family: &str, c: &Check) -> Self {
+        CheckRecord {
+            family: family.to_string(),
+            levels: [LevelRecord::from(&c.level)],
+            negative_control_defect: c.negative_control.defect(),
+            negative_control: c.negative_control.clone(),
+            nu_distance_to_integer: c.level.profile.nu_distance,
+            period_agreement_digits: c.period_agreement_digits,
+            spectrum: SpectrumUsed {
+                bases: c.spectrum_bases.clone(),
+                precision_bits: c.spectrum_bits,
+            },
+        }
+    }
+}
+
+// ---------------------------------------------------------------------------------------------
+// profiles (psi.json)
+
+/// The phase rule of a profile.
+#[derive(Debug, Clone, Serialize)]
+pub struct PhaseRuleRecord {
+    pub k: Option<i64>,
+    pub statement: String,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub max_imaginary_part_relative: Option<Option<f64>>,
+}
+
+/// How a profile was normalized.
+#[derive(Debug, Clone, Serialize)]
+pub struct NormalizationRecord {
+    pub rule: &'static str,
+    pub raw_norm_squared: f64,
+    pub quadrature_range: [f64; 2],
+    pub quadrature_step: f64,
+    pub tail_fraction: f64,
+    pub peak_r: f64,
+}
+
+/// The checks carried by a profile.
+#[derive(Debug, Clone, Serialize)]
+pub struct ProfileChecks {
+    pub decay_power_left: f64,
+    pub decay_power_right: f64,
+    pub eigen_equation_residual_max: Option<f64>,
+    pub eigen_equation_residual_rms: Option<f64>,
+    pub residual_points_with_pole_limits: Option<usize>,
+    pub residual_note: &'static str,
+    pub decay_rate_left: f64,
+    pub decay_rate_right: f64,
+}
+
+/// `psi.json` of `regwave build` (body).
+#[derive(Debug, Clone, Serialize)]
+pub struct ProfileRecord {
+    pub family: String,
+    pub level: Option<usize>,
+    pub modulus: String,
+    pub nu: f64,
+    pub nu_distance_to_integer: f64,
+    pub lambda: ComplexNumber,
+    pub base_point: ComplexNumber,
+    pub spine_im: f64,
+    pub lambda_digits_lost: f64,
+    pub cancellation_digits_lost_on_r: f64,
+    pub digits_left_min_on_r: f64,
+    pub cancellation_digits_lost_on_strip_lines: Option<f64>,
+    pub phase_rule: PhaseRuleRecord,
+    pub normalization: NormalizationRecord,
+    pub checks: ProfileChecks,
+    pub poles: Vec<Pole>,
+    pub files: Vec<String>,
+}
+
+impl ProfileRecord {
+    /// The record of a profile of `family` written to `files`.
+    pub fn new(p: &Profile, family: &str, files: &[&str]) -> Self {
+        let n = &p.normalization;
+        let phase_rule = match p.rule {
+            Some(k) => PhaseRuleRecord {
+                k: Some(k),
+                statement: format!("exp(-i*({k})*r^2/(8*pi)) * psi(r) is real (antiunitary symmetry m -> (m1 + ({k}) m2, -m2))"),
+                max_imaginary_part_relative: Some(p.reality_defect),
+            },
+            None => PhaseRuleRecord {
+                k: None,
+                statement: "no pointwise reality rule for this family: the phase profile arg psi(r) is in psi.csv".into(),
+                max_imaginary_part_relative: None,
+            },
+        };
+        ProfileRecord {
+            family: family.to_string(),
+            level: p.level,
+            modulus: decimal(&p.modulus, digits_for_bits(p.modulus.prec()).max(17)),
+            nu: p.nu,
+            nu_distance_to_integer: p.nu_distance,
+            lambda: p.lambda.into(),
+            base_point: p.base.into(),
+            spine_im: p.spine,
+            lambda_digits_lost: p.lambda_digits_lost,
+            cancellation_digits_lost_on_r: p.cancellation_digits,
+            digits_left_min_on_r: p.working_digits - p.cancellation_digits,
+            cancellation_digits_lost_on_strip_lines: p.strip_cancellation_digits,
+            phase_rule,
+            normalization: NormalizationRecord {
+                rule: "unit L2 norm on R; with a phase rule, exp(-i k r^2/(8 pi)) psi real and positive where |psi| is largest on the grid, else psi itself",
+                raw_norm_squared: n.raw_norm_squared,
+                quadrature_range: [-n.range_ends[0], n.range_ends[1]],
+                quadrature_step: n.step,
+                tail_fraction: n.tail,
+                peak_r: n.peak,
+            },
+            checks: ProfileChecks {
+                decay_power_left: n.decay_power[0],
+                decay_power_right: n.decay_power[1],
+                eigen_equation_residual_max: p.residual.as_ref().map(|r| r.max),
+                eigen_equation_residual_rms: p.residual.as_ref().map(|r| r.rms),
+                residual_points_with_pole_limits: p.residual.as_ref().map(|r| r.pole_limits),
+                residual_note: "A psi(r-2pi i) + C psi(r+2pi i) - (B+a) psi(r), each value integrated along its own route, relative to max|psi| on the grid; at poles of psi the products are evaluated as limits (needs --strip)",
+                decay_rate_left: n.decay[0],
+                decay_rate_right: n.decay[1],
+            },
+            poles: p.poles.clone(),
+            files: files.iter().map(|f| f.to_string()).collect(),
+        }
+    }
+}
+
+/// JSON text of a serializable value, pretty-printed.
+///
+/// Serializing these records cannot fail (no maps with non-string keys, no custom errors).
+pub fn pretty<T: Serialize>(value: &T) -> String {
+    serde_json::to_string_pretty(value).expect("records serialize to JSON")
+}
