@@ -89,8 +89,8 @@ fn main() {
             .modulus
             .to_f64();
         let t = Instant::now();
-        let eig = Eigenfunction::new(&laurent, Complex64::new(a, 0.0), 15.0, None, 0.3)
-            .expect("eigenfunction");
+        let eig =
+            Eigenfunction::new(&laurent, Complex64::new(a, 0.0), None, 0.3).expect("eigenfunction");
         let grid: Vec<f64> = (0..2000)
             .map(|k| -10.0 + 20.0 * k as f64 / 1999.0)
             .collect();
@@ -136,14 +136,8 @@ fn main() {
             .modulus
             .clone();
         let t = Instant::now();
-        let eig = Eigenfunction::new(
-            &laurent,
-            rug::Complex::with_val(bits, (&a50, 0)),
-            50.0,
-            None,
-            0.3,
-        )
-        .expect("eigenfunction");
+        let eig = Eigenfunction::new(&laurent, rug::Complex::with_val(bits, (&a50, 0)), None, 0.3)
+            .expect("eigenfunction");
         let _ = eig.psi_on_line(&near, 0.0).expect("line");
         println!("  {:.2} s", t.elapsed().as_secs_f64());
     }

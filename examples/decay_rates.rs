@@ -22,8 +22,7 @@ fn main() {
         .modulus
         .to_f64();
         let t = Instant::now();
-        let eig =
-            Eigenfunction::new(&l, Complex64::new(a, 0.0), 15.0, None, 0.3).expect("eigenfunction");
+        let eig = Eigenfunction::new(&l, Complex64::new(a, 0.0), None, 0.3).expect("eigenfunction");
         let n = eig.normalization(0.05).expect("normalization");
         println!(
             "{:<6}  {:.3} ({:+.2})   {:.3} ({:+.2})   [−{}, {}]   {:.1e}   {:.2} s",

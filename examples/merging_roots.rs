@@ -38,10 +38,10 @@ fn main() {
     let a = a_hi.to_f64();
     let curve = Curve::new(&l, Complex64::new(a, 0.0)).expect("curve");
     let curve_hi = Curve::new(&l, Complex::with_val(bits, (&a_hi, 0))).expect("curve");
-    let eig = Eigenfunction::new(&l, Complex64::new(a, 0.0), 15.0, None, 0.3).expect("eig");
+    let eig = Eigenfunction::new(&l, Complex64::new(a, 0.0), None, 0.3).expect("eig");
     let prec40 = regwave::precision::with_guard(regwave::precision::bits_for_digits(40.0));
-    let eig_hi = Eigenfunction::new(&l, Complex::with_val(prec40, (&a_hi, 0)), 40.0, None, 0.3)
-        .expect("eig");
+    let eig_hi =
+        Eigenfunction::new(&l, Complex::with_val(prec40, (&a_hi, 0)), None, 0.3).expect("eig");
     let c = eig.spine;
     println!("{id} level {level}, a = {a}, spine Im z = {c:.4}");
     println!("    r   root gap  err Δ direct  err Δ expanded  y-pred err/gap  D-pred err/|D|  ψ f64 vs 40 digits");

@@ -21,7 +21,7 @@ fn main() {
         let mut line = format!("{:<5}", f.id);
         for l in &s.levels {
             let a = l.value.to_f64();
-            match periods::periods(&laurent, Complex64::new(a, 0.0), 15.0, None) {
+            match periods::periods(&laurent, Complex64::new(a, 0.0), None) {
                 Ok(p) => line.push_str(&format!(
                     "  a{}={:.6} nu={:.6}{:+.1e}i",
                     l.level, a, p.nu.re, p.nu.im

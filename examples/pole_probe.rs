@@ -11,7 +11,7 @@ fn main() {
         let a = regwave::curve::attractor::solve_levels(&l, 1..=1, 20).expect("a")[0]
             .modulus
             .to_f64();
-        let eig = Eigenfunction::new(&l, Complex64::new(a, 0.0), 15.0, None, 0.3).expect("eig");
+        let eig = Eigenfunction::new(&l, Complex64::new(a, 0.0), None, 0.3).expect("eig");
         let two_pi = 2.0 * std::f64::consts::PI;
         let mut line = format!("{id:5}");
         for s in [1.0, -1.0] {

@@ -17,7 +17,7 @@ fn main() {
         let bits =
             regwave::precision::with_guard(regwave::precision::bits_for_digits(digits as f64));
         let ac = Complex::with_val(bits, (&a, 0));
-        let eig = Eigenfunction::new(&l, ac.clone(), digits as f64, None, 0.3).expect("eig");
+        let eig = Eigenfunction::new(&l, ac.clone(), None, 0.3).expect("eig");
         let grid = [0.37, 7.6, 10.7];
         let main = eig.psi_on_line(&grid, 0.0).expect("line");
         let up = eig.psi_on_line(&grid, two_pi).expect("line");

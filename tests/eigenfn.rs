@@ -40,7 +40,7 @@ fn matches_the_harmonic_oscillator_eigenvectors() {
         };
         let spec = spectrum::solve(&l, &opts).unwrap();
         for (lev, &a) in attractor_moduli(id, 0..=3).iter().enumerate() {
-            let eig = Eigenfunction::new(&l, Complex64::new(a, 0.0), 15.0, None, 0.3).unwrap();
+            let eig = Eigenfunction::new(&l, Complex64::new(a, 0.0), None, 0.3).unwrap();
             let diff = eigenvector::eigenvector_difference(&eig, &spec, lev).unwrap();
             assert!(diff < 1e-9, "{id} level {lev}: max difference {diff:e}");
         }
@@ -55,7 +55,7 @@ fn eigen_equation_with_independently_integrated_shifts() {
     for id in ["F0", "P2", "dP3"] {
         let l = family(id);
         let a = attractor_moduli(id, 1..=1)[0];
-        let eig = Eigenfunction::new(&l, Complex64::new(a, 0.0), 15.0, None, 0.3).unwrap();
+        let eig = Eigenfunction::new(&l, Complex64::new(a, 0.0), None, 0.3).unwrap();
         let q = QuantumCurve::new(&l).unwrap();
         let ac = Complex64::new(a, 0.0);
         let scale = (-40..=40)
@@ -99,14 +99,7 @@ fn precision_ladder() {
         .clone();
     let ratio = |digits: u32| -> Complex {
         let bits = with_guard(bits_for_digits(digits as f64));
-        let eig = Eigenfunction::new(
-            &l,
-            Complex::with_val(bits, (&a, 0)),
-            digits as f64,
-            None,
-            0.3,
-        )
-        .unwrap();
+        let eig = Eigenfunction::new(&l, Complex::with_val(bits, (&a, 0)), None, 0.3).unwrap();
         let p = eig.psi(&Complex::with_val(bits, 0.3)).unwrap();
         let q = eig.psi(&Complex::with_val(bits, -0.9)).unwrap();
         Complex::with_val(bits, p / q)
@@ -136,7 +129,7 @@ fn level_n_has_n_zeros_between_the_outermost_turning_points() {
         let rule = regwave::eigenfunction::phase::reality_rule(&l);
         assert!(rule.is_some(), "{id} has a reality rule");
         for (n, &a) in attractor_moduli(id, 0..=5).iter().enumerate() {
-            let eig = Eigenfunction::new(&l, Complex64::new(a, 0.0), 15.0, None, 0.3).unwrap();
+            let eig = Eigenfunction::new(&l, Complex64::new(a, 0.0), None, 0.3).unwrap();
             let z = zeros::zeros_inside(&eig, rule).unwrap();
             assert_eq!(z.count, n, "{id} level {n}: zeros at {:?}", z.positions);
         }
@@ -212,7 +205,7 @@ fn shift_relation_on_independent_routes() {
         // Both moduli on the same spine (the default one can flip between two equally clear
         // heights, e.g. π/2 and 3π/2 for P2, which changes the branch point b₀).
         let defect = |a: f64, spine: Option<f64>| -> (f64, f64) {
-            let eig = Eigenfunction::new(&l, Complex64::new(a, 0.0), 15.0, spine, 0.3).unwrap();
+            let eig = Eigenfunction::new(&l, Complex64::new(a, 0.0), spine, 0.3).unwrap();
             let sing = eig.curve().singular_points().unwrap();
             let pair = periods::beta_loop(eig.curve(), &sing)
                 .unwrap()
@@ -272,7 +265,7 @@ fn reality_rules_hold_for_every_family_that_has_one() {
         let l = family(f.id);
         let Some(k) = reality_rule(&l) else { continue };
         let a = attractor_moduli(f.id, 1..=1)[0];
-        let eig = Eigenfunction::new(&l, Complex64::new(a, 0.0), 15.0, None, 0.3).unwrap();
+        let eig = Eigenfunction::new(&l, Complex64::new(a, 0.0), None, 0.3).unwrap();
         let grid: Vec<f64> = (-160..=160).map(|j| j as f64 * 0.05).collect();
         let g: Vec<Complex64> = eig
             .psi_on_line(&grid, 0.0)
@@ -326,7 +319,7 @@ fn decay_rates_on_the_real_line() {
     for (id, want) in cases {
         let l = family(id);
         let a = attractor_moduli(id, 1..=1)[0];
-        let eig = Eigenfunction::new(&l, Complex64::new(a, 0.0), 15.0, None, 0.3).unwrap();
+        let eig = Eigenfunction::new(&l, Complex64::new(a, 0.0), None, 0.3).unwrap();
         let norm = eig.normalization(0.05).unwrap();
         for side in 0..2 {
             let rel = (norm.decay[side] - want[side]).abs() / want[side];
@@ -392,7 +385,7 @@ fn decay_rates_of_all_fifteen_families() {
     for (id, ends) in table {
         let l = family(id);
         let a = attractor_moduli(id, 1..=1)[0];
-        let eig = Eigenfunction::new(&l, Complex64::new(a, 0.0), 15.0, None, 0.3).unwrap();
+        let eig = Eigenfunction::new(&l, Complex64::new(a, 0.0), None, 0.3).unwrap();
         assert_eq!(eig.curve().end_roots(), ends, "{id}: kinds of the ends");
         let norm = eig.normalization(0.05).unwrap();
         for side in 0..2 {
@@ -426,7 +419,7 @@ fn merging_end_decays_at_rate_one_only_at_the_attractor() {
     let l = family("F0*");
     let a = attractor_moduli("F0*", 1..=1)[0];
     let rate = |a: f64| {
-        let eig = Eigenfunction::new(&l, Complex64::new(a, 0.0), 15.0, None, 0.3).unwrap();
+        let eig = Eigenfunction::new(&l, Complex64::new(a, 0.0), None, 0.3).unwrap();
         eig.normalization(0.05).unwrap().decay[0]
     };
     let want = documented_rate(documented_ends()[12].1[0]);

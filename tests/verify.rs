@@ -32,7 +32,7 @@ fn spectrum_of(l: &Laurent, top: usize, basis: usize) -> spectrum::Spectrum {
 }
 
 fn eig(id: &str, a: f64) -> Eigenfunction<Complex64> {
-    Eigenfunction::new(&family(id), Complex64::new(a, 0.0), 15.0, None, 0.3).unwrap()
+    Eigenfunction::new(&family(id), Complex64::new(a, 0.0), None, 0.3).unwrap()
 }
 
 #[test]
@@ -242,14 +242,7 @@ fn truncated_precision_breaks_the_precision_ladder() {
     );
     let build = |a: &rug::Float, digits: u32| {
         let bits = with_guard(bits_for_digits(digits as f64));
-        Eigenfunction::new(
-            &l,
-            Complex::with_val(bits, (a, 0)),
-            digits as f64,
-            None,
-            0.3,
-        )
-        .unwrap()
+        Eigenfunction::new(&l, Complex::with_val(bits, (a, 0)), None, 0.3).unwrap()
     };
     let ratio = |e: &Eigenfunction<Complex>| -> Complex {
         let bits = e.lambda.prec().0;

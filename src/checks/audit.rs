@@ -47,7 +47,7 @@ use crate::curve::periods;
 use crate::eigenfunction::construction::EigenError;
 use crate::eigenfunction::profile::{self, ProfileError, ProfileOptions, Target};
 use crate::operator::spectrum::{self, SpectrumError, SpectrumOptions};
-use crate::precision::{bits_for_digits, with_guard};
+use crate::precision::{working_bits, DOUBLE_DIGITS, MIN_ATTRACTOR_DIGITS};
 use crate::progress::{Counter, Observer, Stage};
 use rayon::prelude::*;
 use std::ops::RangeInclusive;
@@ -134,7 +134,7 @@ pub fn run(
             levels: 0..=hi + 1,
             basis: options.spectrum_basis.max(spectrum::minimum_basis(hi + 1)),
             max_basis: options.spectrum_max_basis,
-            digits: options.digits.min(16),
+            digits: options.digits.min(DOUBLE_DIGITS),
             squeeze: 1.0,
         },
     )?;
@@ -144,7 +144,8 @@ pub fn run(
     let (_, threshold) = laurent.classical_minimum();
     let scan = nu_scan::nu_scan(laurent, window_top, 48 + 12 * (hi + 1))?;
     stages.finished(Stage::NuScan);
-    let attractors = attractor::solve_levels(laurent, lo..=hi, options.digits.max(20))?;
+    let attractors =
+        attractor::solve_levels(laurent, lo..=hi, options.digits.max(MIN_ATTRACTOR_DIGITS))?;
     stages.finished(Stage::AttractorModuli);
     let levels: Vec<LevelAudit> = attractors
         .par_iter()
@@ -172,7 +173,7 @@ pub fn run(
     let negative_control = negative_control(laurent, &levels[0], options.perturbation)?;
     stages.finished(Stage::NegativeControl);
     let top = &attractors[attractors.len() - 1].modulus;
-    let bits = with_guard(bits_for_digits(options.digits.max(20) as f64));
+    let bits = working_bits(options.digits.max(MIN_ATTRACTOR_DIGITS) as f64);
     let terms = laurent.constant_terms(2000)?;
     let period_agreement_digits =
         periods::compare(laurent, &rug::Complex::with_val(bits, (top, 0)), &terms)?

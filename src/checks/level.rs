@@ -9,8 +9,9 @@
 //! figures at the modulus perturbed off the attractor value.
 //!
 //! # Accuracy
-//! The diagnostics run in double precision while |λ| costs at most [`DIAGNOSTIC_LOSS_MAX`]
-//! digits, else at 19 + log₁₀|λ| digits ([`diagnostic_bits`]); the report states their precision.
+//! The diagnostics run in double precision while |λ| costs at most
+//! [`crate::precision::DIAGNOSTIC_LOSS_MAX`] digits, else at 19 + log₁₀|λ| digits
+//! ([`diagnostic_bits`]); the report states their precision.
 //!
 //! # Errors
 //! [`AuditError`].
@@ -28,7 +29,7 @@ use crate::eigenfunction::construction::Eigenfunction;
 use crate::eigenfunction::profile::{self, Profile, ProfileOptions, Target, BASE_RE};
 use crate::numerics::complex::CNum;
 use crate::operator::spectrum::{self, SpectrumOptions};
-use crate::precision::{bits_for_digits, digits_for_bits, with_guard};
+use crate::precision::{self, working_bits, DOUBLE_BITS, DOUBLE_DIGITS, MIN_ATTRACTOR_DIGITS};
 use num_complex::Complex64;
 use rug::Float;
 
@@ -78,20 +79,10 @@ impl NegativeControl {
     }
 }
 
-/// The diagnostics run in double precision while |λ| costs fewer than [`DIAGNOSTIC_LOSS_MAX`]
-/// digits (they judge defects of 1e-8 against 1e-11 and count zeros, not the last digit), else
-/// at 19 + log₁₀|λ| digits.
+/// The precision of the diagnostics of a profile ([`crate::precision::diagnostic_bits`]).
 pub fn diagnostic_bits(p: &Profile) -> u32 {
-    let lost = p.lambda.norm().max(1.0).log10();
-    if lost <= DIAGNOSTIC_LOSS_MAX {
-        53
-    } else {
-        with_guard(bits_for_digits(19.0 + lost))
-    }
+    precision::diagnostic_bits(p.lambda.norm())
 }
-
-/// Digits the diagnostics may lose to |λ| in double precision.
-pub const DIAGNOSTIC_LOSS_MAX: f64 = 5.0;
 
 /// The per-level figures at the diagnostic precision.
 struct Diagnostics {
@@ -110,12 +101,7 @@ fn diagnostics<T: CNum>(
     spec: &spectrum::Spectrum,
     level: usize,
 ) -> Result<Diagnostics, AuditError> {
-    let digits = if a.prec() == 53 {
-        15.0
-    } else {
-        digits_for_bits(a.prec()) as f64
-    };
-    let eig = Eigenfunction::new(laurent, a, digits, None, BASE_RE)?;
+    let eig = Eigenfunction::new(laurent, a, None, BASE_RE)?;
     Ok(Diagnostics {
         zeros: zeros::zeros_inside(&eig, rule)?,
         eigenvector_difference: eigenvector::eigenvector_difference(&eig, spec, level)?,
@@ -134,7 +120,7 @@ fn diagnostics_at(
     spec: &spectrum::Spectrum,
     level: usize,
 ) -> Result<Diagnostics, AuditError> {
-    if bits == 53 {
+    if bits == DOUBLE_BITS {
         diagnostics(laurent, Complex64::new(a.to_f64(), 0.0), rule, spec, level)
     } else {
         diagnostics(
@@ -242,13 +228,13 @@ pub fn check(
             levels: 0..=level + 1,
             basis: 200.max(spectrum::minimum_basis(level + 1)),
             max_basis: 300,
-            digits: options.digits.min(16),
+            digits: options.digits.min(DOUBLE_DIGITS),
             squeeze: 1.0,
         },
     )?;
     let audited = level_audit(laurent, profile, &spec, level)?;
     let negative_control = negative_control(laurent, &audited, options.perturbation)?;
-    let bits = with_guard(bits_for_digits(options.digits.max(20) as f64));
+    let bits = working_bits(options.digits.max(MIN_ATTRACTOR_DIGITS) as f64);
     let terms = laurent.constant_terms(2000)?;
     let period_agreement_digits = periods::compare(
         laurent,
@@ -273,7 +259,7 @@ pub(crate) fn negative_control(
     perturbation: f64,
 ) -> Result<NegativeControl, AuditError> {
     let a = level.profile.modulus.to_f64() * (1.0 + perturbation);
-    let eig = Eigenfunction::new(laurent, Complex64::new(a, 0.0), 15.0, None, BASE_RE)?;
+    let eig = Eigenfunction::new(laurent, Complex64::new(a, 0.0), None, BASE_RE)?;
     Ok(NegativeControl {
         perturbation,
         modulus: a,

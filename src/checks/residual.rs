@@ -30,7 +30,7 @@
 use crate::eigenfunction::construction::{mean_value_circle, EigenError, Eigenfunction};
 use crate::numerics::complex::CNum;
 use crate::operator::quantum_curve::QuantumCurve;
-use crate::precision::digits_for_bits;
+use crate::precision::digits_of;
 
 /// The eigen-equation residual on the grid.
 #[derive(Debug, Clone, serde::Serialize)]
@@ -130,7 +130,7 @@ fn pole_product<T: CNum>(
         r.im_f64() + 2.0 * std::f64::consts::PI * side as f64,
     ];
     let rho = POLE_CIRCLE.min(0.4 * eig.distance_to_branch_point(pole));
-    let m = ((digits_for_bits(r.prec()) as f64 + 2.0) / (2.0 * std::f64::consts::PI / rho).log10())
+    let m = ((digits_of(r.prec()) + 2.0) / (2.0 * std::f64::consts::PI / rho).log10())
         .ceil()
         .max(16.0) as usize;
     let mut acc = r.int_like(0);
@@ -166,7 +166,7 @@ mod tests {
         let a = attractor::solve_levels(&l, 1..=1, 20).unwrap()[0]
             .modulus
             .to_f64();
-        let eig = Eigenfunction::new(&l, Complex64::new(a, 0.0), 15.0, None, BASE_RE).unwrap();
+        let eig = Eigenfunction::new(&l, Complex64::new(a, 0.0), None, BASE_RE).unwrap();
         let grid: Vec<f64> = (-20..=20).map(|k| 0.1 * k as f64).collect();
         let two_pi = 2.0 * std::f64::consts::PI;
         let line = |im: f64| eig.psi_on_line(&grid, im).unwrap();

@@ -49,12 +49,7 @@ pub fn route_dependence<T: CNum>(
     eig: &Eigenfunction<T>,
 ) -> Result<f64, VerifyError> {
     let a = eig.curve().modulus().clone();
-    let digits = if a.prec() == 53 {
-        15.0
-    } else {
-        crate::precision::digits_for_bits(a.prec()) as f64
-    };
-    let other = Eigenfunction::new(laurent, a.clone(), digits, Some(eig.spine + 0.6), -0.8)?;
+    let other = Eigenfunction::new(laurent, a.clone(), Some(eig.spine + 0.6), -0.8)?;
     let prec = a.prec();
     let at = |e: &Eigenfunction<T>, r: f64| e.psi(&T::from_f64s(r, 0.0, prec));
     let kappa = at(eig, 0.2)? / at(&other, 0.2)?;

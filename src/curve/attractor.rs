@@ -33,7 +33,9 @@ use crate::curve::laurent::Laurent;
 use crate::curve::periods::{self, CyclePeriods, PeriodsError};
 use crate::numerics::complex::CNum;
 use crate::numerics::serial;
-use crate::precision::{bits_for_digits, digits_for_bits, with_guard};
+use crate::precision::{
+    confirming_bits, tolerance, working_bits, SEARCH_FALLBACK_BITS, SUM_ROUNDING_BITS,
+};
 use num_complex::Complex64;
 use rayon::prelude::*;
 use rug::{Complex, Float, Integer};
@@ -141,7 +143,7 @@ impl Family {
     ) -> Result<(Float, Float, Float, f64), AttractorError> {
         let ac = Complex::with_val(bits, (a, 0));
         let alpha = self.alpha_series(&ac)?;
-        let p = periods::periods(&self.laurent, ac, digits_for_bits(bits) as f64, alpha)?;
+        let p = periods::periods(&self.laurent, ac, alpha)?;
         // t = log a: dν/dt = a ν_a, d²ν/dt² = a ν_a + a² ν_aa.
         let slope = Float::with_val(bits, p.nu_da.real() * a);
         let a2 = Float::with_val(bits, a.square_ref());
@@ -167,14 +169,14 @@ impl Family {
                 steps: 0,
                 error: c.error,
             });
-        match periods::periods(&self.laurent, Complex64::new(a, 0.0), 15.0, alpha) {
+        match periods::periods(&self.laurent, Complex64::new(a, 0.0), alpha) {
             Ok(p) => Ok((p.nu.re, p.nu_da.re * a)),
             // At large moduli two branch points can come closer than double precision resolves
             // (P2 from level 19 on: a pair at log a ± iε with ε ≈ 1e-8, measured): the β loop
             // then fails in double precision, and the same values are computed in MPFR at
-            // 128 bits instead.
+            // SEARCH_FALLBACK_BITS instead.
             Err(_) => {
-                let bits = 128;
+                let bits = SEARCH_FALLBACK_BITS;
                 let (nu, slope, _, _) = self.nu(&Float::with_val(bits, t).exp(), bits)?;
                 Ok((nu.to_f64(), slope.to_f64()))
             }
@@ -274,7 +276,7 @@ impl Family {
         bits: u32,
     ) -> Result<(Float, f64, f64), AttractorError> {
         let mut t = Float::with_val(bits, t0);
-        let tol = 2f64.powi(-(bits as i32) + 8);
+        let tol = tolerance(bits, SUM_ROUNDING_BITS);
         let mut last = f64::INFINITY;
         for _ in 0..30 {
             let a = Float::with_val(bits, t.exp_ref());
@@ -311,12 +313,7 @@ pub fn solve_levels(
     levels: std::ops::RangeInclusive<usize>,
     digits: u32,
 ) -> Result<Vec<Attractor>, AttractorError> {
-    solve_levels_at(
-        laurent,
-        levels,
-        digits,
-        with_guard(bits_for_digits(digits as f64)),
-    )
+    solve_levels_at(laurent, levels, digits, working_bits(digits as f64))
 }
 
 /// As [`solve_levels`] at an explicit working precision `bits` (the confirming solve uses more).
@@ -330,7 +327,7 @@ pub fn solve_levels_at(
     bits: u32,
 ) -> Result<Vec<Attractor>, AttractorError> {
     let mut fam = Family::new(laurent)?;
-    let check_bits = bits + (bits / 8).max(32);
+    let check_bits = confirming_bits(bits);
     // Phase 1 (sequential, double precision): each level's root seeds the next guess.
     let mut roots: Vec<(usize, i64, f64)> = Vec::new();
     let mut previous: Vec<(f64, f64)> = Vec::new(); // (k, t)

@@ -34,6 +34,7 @@ use crate::curve::cover::{
 };
 use crate::numerics::complex::CNum;
 use crate::numerics::quadrature;
+use crate::precision::{digits_of, tolerance, unit_roundoff, SUM_ROUNDING_BITS};
 
 /// Step factor κ: step ≤ κ · distance to the nearest singular point (ρ ≥ 5.8, see above).
 pub const STEP_FACTOR: f64 = 0.5;
@@ -124,7 +125,13 @@ pub struct March {
 }
 
 impl March {
-    /// Settings for `digits` decimal digits.
+    /// Settings for computations at `bits`: steps that deliver [`digits_of`] those bits.
+    pub fn for_bits(bits: u32) -> Self {
+        Self::for_digits(digits_of(bits))
+    }
+
+    /// Settings for `digits` decimal digits (a precision the values need not carry: for
+    /// comparisons of the step rule only; computations use [`March::for_bits`]).
     pub fn for_digits(digits: f64) -> Self {
         March {
             nodes: (0.66 * digits + 6.0).ceil() as usize,
@@ -185,7 +192,7 @@ pub fn continue_sheet<T: CNum>(
     let mut half_log_slope = curve.fiber(&start.z).half_log_slope;
     let mut acc = PathIntegrals::zero(&start.z);
     let two = start.z.int_like(2);
-    let eps = 2f64.powi(-(start.z.prec() as i32));
+    let eps = unit_roundoff(start.z.prec());
     for target in path.iter().skip(1) {
         loop {
             let remaining = target.clone() - here.z.clone();
@@ -197,7 +204,7 @@ pub fn continue_sheet<T: CNum>(
             // Below the working precision relative to |z| a step could not even move z.
             let floor = march
                 .min_distance
-                .max(2f64.powi(16 - start.z.prec() as i32) * (1.0 + here.z.abs_f64()));
+                .max(tolerance(start.z.prec(), 16) * (1.0 + here.z.abs_f64()));
             if d < floor {
                 return Err(CoverError::ThroughSingularPoint {
                     z: format!("{:?}", here.z.to_c64()),
@@ -333,7 +340,7 @@ fn follow<T: CNum>(
     };
     // The other candidate must be much farther than the prediction error.
     let scale = predicted.abs_f64().max(1e-300);
-    let gap = far / near.max(scale * 2f64.powi(-(z.prec() as i32) + 8));
+    let gap = far / near.max(scale * tolerance(z.prec(), SUM_ROUNDING_BITS));
     if gap < SEPARATION_RATIO {
         return Err(CoverError::SheetAmbiguous {
             z: format!("{:?}", z.to_c64()),

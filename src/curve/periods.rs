@@ -38,6 +38,7 @@ use crate::curve::laurent::Laurent;
 use crate::numerics::complex::CNum;
 use crate::numerics::plane::segment_distance;
 use crate::numerics::serial;
+use crate::precision::{digits_of, tolerance, SUM_ROUNDING_BITS};
 use rug::{Complex, Float, Integer};
 use thiserror::Error;
 
@@ -106,7 +107,9 @@ pub fn alpha_series(
     }
     // Tail after N terms ≤ (S/|a|)^N / (1 − S/|a|) relative to the leading term.
     let ratio = radius / modulus;
-    let needed = ((prec as f64 + 8.0) * std::f64::consts::LN_2 / -ratio.ln()).ceil() as usize + 1;
+    let needed = ((prec + SUM_ROUNDING_BITS) as f64 * std::f64::consts::LN_2 / -ratio.ln()).ceil()
+        as usize
+        + 1;
     if needed > constant_terms.len() {
         return Err(PeriodsError::TooFewTerms {
             needed,
@@ -144,7 +147,7 @@ pub fn alpha_series(
     let regulator = -(two_pi_i * (a.clone().ln() - reg_sum));
     let tail = ratio.powi(needed as i32) / (1.0 - ratio);
     let error = tail * (omega.abs_f64() + regulator.abs_f64())
-        + 2f64.powi(-(prec as i32) + 8) * regulator.abs_f64();
+        + tolerance(prec, SUM_ROUNDING_BITS) * regulator.abs_f64();
     Ok(CyclePeriods {
         omega,
         regulator,
@@ -416,20 +419,19 @@ pub struct Periods<T> {
     pub nu_error: f64,
 }
 
-/// Ω, R of α and β, τ and ν at modulus a, by path integration (α from `alpha` if given, e.g.
-/// the series).
+/// Ω, R of α and β, τ and ν at modulus a, by path integration at the precision of `a` (α from
+/// `alpha` if given, e.g. the series).
 ///
 /// # Errors
 /// See [`PeriodsError`].
 pub fn periods<T: CNum>(
     laurent: &Laurent,
     a: T,
-    digits: f64,
     alpha: Option<CyclePeriods<T>>,
 ) -> Result<Periods<T>, PeriodsError> {
     let curve = Curve::new(laurent, a)?;
     let singular = curve.singular_points()?;
-    let march = March::for_digits(digits);
+    let march = March::for_bits(curve.modulus().prec());
     let alpha = match alpha {
         Some(a) => a,
         None => alpha_path(&curve, &singular, &march)?,
@@ -494,17 +496,12 @@ pub fn compare(
         Ok(s) => (Some(s), None),
         Err(e) => (None, Some(e.to_string())),
     };
-    let path = periods(
-        laurent,
-        a.clone(),
-        crate::precision::digits_for_bits(bits) as f64,
-        None,
-    )?;
+    let path = periods(laurent, a.clone(), None)?;
     let agreement_digits = series.as_ref().map(|s| {
         let rel = |x: &Complex, y: &Complex| (x.clone() - y.clone()).abs_f64() / y.abs_f64();
         let worst = rel(&s.omega, &path.alpha.omega).max(rel(&s.regulator, &path.alpha.regulator));
         if worst == 0.0 {
-            crate::precision::digits_for_bits(bits) as f64
+            digits_of(bits)
         } else {
             -worst.log10()
         }
@@ -551,7 +548,7 @@ mod tests {
             ),
         ];
         for (l, a) in cases {
-            let p = periods(&l, Complex64::new(a, 0.0), 15.0, None).unwrap();
+            let p = periods(&l, Complex64::new(a, 0.0), None).unwrap();
             eprintln!(
                 "a {a} nu {} tau {} loop {:?}",
                 p.nu, p.tau, p.beta_loop.branch_points
@@ -559,12 +556,8 @@ mod tests {
             assert!((p.nu - 1.0).norm() < 1e-9, "ν = {}", p.nu);
             // dν/da against a central difference.
             let h = 1e-5 * a;
-            let up = periods(&l, Complex64::new(a + h, 0.0), 15.0, None)
-                .unwrap()
-                .nu;
-            let down = periods(&l, Complex64::new(a - h, 0.0), 15.0, None)
-                .unwrap()
-                .nu;
+            let up = periods(&l, Complex64::new(a + h, 0.0), None).unwrap().nu;
+            let down = periods(&l, Complex64::new(a - h, 0.0), None).unwrap().nu;
             let fd = (up - down) / (2.0 * h);
             assert!(
                 (fd - p.nu_da).norm() < 1e-7 * p.nu_da.norm(),
@@ -572,12 +565,8 @@ mod tests {
                 p.nu_da,
                 fd
             );
-            let up_d = periods(&l, Complex64::new(a + h, 0.0), 15.0, None)
-                .unwrap()
-                .nu_da;
-            let down_d = periods(&l, Complex64::new(a - h, 0.0), 15.0, None)
-                .unwrap()
-                .nu_da;
+            let up_d = periods(&l, Complex64::new(a + h, 0.0), None).unwrap().nu_da;
+            let down_d = periods(&l, Complex64::new(a - h, 0.0), None).unwrap().nu_da;
             let fd2 = (up_d - down_d) / (2.0 * h);
             assert!(
                 (fd2 - p.nu_daa).norm() < 1e-6 * p.nu_daa.norm(),

@@ -103,7 +103,6 @@ impl<T: CNum> Eigenfunction<T> {
     pub fn new(
         laurent: &Laurent,
         a: T,
-        digits: f64,
         spine: Option<f64>,
         base_re: f64,
     ) -> Result<Self, EigenError> {
@@ -112,7 +111,7 @@ impl<T: CNum> Eigenfunction<T> {
         let pole_orders = curve.puncture_orders()?;
         let march = March {
             twist: true,
-            ..March::for_digits(digits)
+            ..March::for_bits(curve.modulus().prec())
         };
         let alpha = periods::alpha_path(&curve, &singular, &march)?;
         let lambda = alpha.regulator.clone() / alpha.omega.clone();

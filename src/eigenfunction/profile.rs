@@ -48,7 +48,11 @@ use crate::input::selection::SelectionError;
 use crate::numerics::complex::CNum;
 use crate::numerics::serial;
 use crate::operator::quantum_curve::QuantumCurve;
-use crate::precision::{bits_for_digits, digits_for_bits, with_guard, MAX_DIGITS};
+use crate::precision::{
+    digits_for_bits, digits_of, lambda_loss_digits, normalization_digits, profile_digits,
+    profile_digits_after_loss, profile_in_double, working_bits, DIGITS_LEFT_MIN, DOUBLE_BITS,
+    MAX_DIGITS, MIN_ATTRACTOR_DIGITS,
+};
 use crate::progress::{Counter, Observer, Stage};
 use num_complex::Complex64;
 use rug::Float;
@@ -56,8 +60,6 @@ use thiserror::Error;
 
 /// A given modulus counts as an attractor modulus when ν is this close to an integer.
 pub const ATTRACTOR_TOLERANCE: f64 = 1e-6;
-/// Digits that must survive the cancellation in χ − χ∘ι̃ on R.
-pub const DIGITS_LEFT_MIN: f64 = 12.0;
 /// Step of the normalization quadrature on R.
 pub const NORM_STEP: f64 = 0.05;
 /// Real part of the base point on the spine.
@@ -209,21 +211,14 @@ pub fn build_observed(
     options: &ProfileOptions,
     progress: Observer<'_>,
 ) -> Result<Profile, ProfileError> {
-    let requested = options.digits as f64;
     let resolved = resolve(laurent, target, options)?;
     let stages = Counter::new(progress, 2);
     stages.finished(Stage::Modulus);
     // Digits the exponential of the regulator integral costs.
     let lambda = lambda_estimate(laurent, resolved.modulus.to_f64())?;
-    let lost = lambda.max(1.0).log10();
-    let double = options.digits <= 16 && 2e-15 * lambda <= 1e-11;
-    let work_digits = if double {
-        15.0
-    } else if options.digits <= 16 {
-        (16.0 + lost).ceil()
-    } else {
-        requested + lost
-    };
+    let lost = lambda_loss_digits(lambda);
+    let double = profile_in_double(options.digits, lambda);
+    let work_digits = profile_digits(options.digits, lambda);
     let mut profile = sample_at(laurent, target, &resolved, work_digits, double, options)?;
     stages.finished(Stage::Sampled);
     // The loss is only measurable below the working precision, so the check repeats (at most
@@ -234,13 +229,7 @@ pub fn build_observed(
         if profile.working_digits - profile.cancellation_digits >= DIGITS_LEFT_MIN {
             break;
         }
-        let need = (15.0
-            + profile
-                .cancellation_digits
-                .max(profile.working_digits - 8.0)
-            + 4.0)
-            .ceil()
-            .min(MAX_DIGITS as f64);
+        let need = profile_digits_after_loss(profile.cancellation_digits, profile.working_digits);
         profile = sample_at(laurent, target, &resolved, need, false, options)?;
         stages.finished(Stage::Sampled);
     }
@@ -254,8 +243,8 @@ fn resolve(
     target: &Target,
     options: &ProfileOptions,
 ) -> Result<Resolved, ProfileError> {
-    let digits = options.digits.max(20);
-    let bits = with_guard(bits_for_digits(digits as f64));
+    let digits = options.digits.max(MIN_ATTRACTOR_DIGITS);
+    let bits = working_bits(digits as f64);
     let solved = |at: &attractor::Attractor| Resolved {
         modulus: at.modulus.clone(),
         level: Some(at.level),
@@ -300,7 +289,7 @@ fn resolve(
 fn lambda_estimate(laurent: &Laurent, a: f64) -> Result<f64, ProfileError> {
     let curve = Curve::new(laurent, Complex64::new(a, 0.0))?;
     let sing = curve.singular_points()?;
-    let alpha = periods::alpha_path(&curve, &sing, &March::for_digits(15.0))?;
+    let alpha = periods::alpha_path(&curve, &sing, &March::for_bits(DOUBLE_BITS))?;
     Ok((alpha.regulator / alpha.omega).norm())
 }
 
@@ -326,7 +315,7 @@ fn modulus_at(
     }
 }
 
-/// Samples at `digits` working digits (double precision when `double`).
+/// Samples at `digits` working digits (with guard bits; double precision when `double`).
 fn sample_at(
     laurent: &Laurent,
     target: &Target,
@@ -337,23 +326,14 @@ fn sample_at(
 ) -> Result<Profile, ProfileError> {
     if double {
         let a = Complex64::new(resolved.modulus.to_f64(), 0.0);
-        return sample(
-            laurent,
-            a,
-            resolved.modulus.clone(),
-            15.0,
-            resolved,
-            options,
-        );
+        return sample(laurent, a, resolved.modulus.clone(), resolved, options);
     }
-    let bits = with_guard(bits_for_digits(digits));
+    let bits = working_bits(digits);
     let a = modulus_at(laurent, target, resolved, bits)?;
-    let work = digits_for_bits(bits) as f64;
     sample(
         laurent,
         rug::Complex::with_val(bits, (&a, 0)),
         a,
-        work,
         resolved,
         options,
     )
@@ -402,13 +382,12 @@ fn sample<T: CNum + Send + Sync>(
     laurent: &Laurent,
     a: T,
     modulus: Float,
-    digits: f64,
     resolved: &Resolved,
     options: &ProfileOptions,
 ) -> Result<Profile, ProfileError> {
     let prec = a.prec();
-    let eig = Eigenfunction::new(laurent, a.clone(), digits, None, BASE_RE)?;
-    let normalization = normalization(laurent, &eig, &a, digits)?;
+    let eig = Eigenfunction::new(laurent, a.clone(), None, BASE_RE)?;
+    let normalization = normalization(laurent, &eig, &a)?;
     let raw = lines(&eig, &options.grid, options.strip)?;
     let residual = if options.strip {
         Some(eigen_equation_residual(
@@ -452,7 +431,7 @@ fn sample<T: CNum + Send + Sync>(
         spine: eig.spine,
         base: eig.base.z.to_c64(),
         precision_bits: prec,
-        working_digits: if prec == 53 { 15.0 } else { digits },
+        working_digits: digits_of(prec),
         lambda_digits_lost: 0.0,
         cancellation_digits: raw.loss,
         strip_cancellation_digits: raw.strip_loss,
@@ -478,15 +457,14 @@ fn normalization<T: CNum + Send + Sync>(
     laurent: &Laurent,
     eig: &Eigenfunction<T>,
     a: &T,
-    digits: f64,
 ) -> Result<Normalization, ProfileError> {
-    let enough = 19.0 + eig.lambda.abs_f64().max(1.0).log10();
-    if a.prec() == 53 || enough >= digits {
+    let enough = normalization_digits(eig.lambda.abs_f64());
+    if a.prec() == DOUBLE_BITS || enough >= digits_of(a.prec()) {
         return Ok(eig.normalization(NORM_STEP)?);
     }
-    let bits = with_guard(bits_for_digits(enough));
+    let bits = working_bits(enough);
     let low = T::from_f64s(0.0, 0.0, bits) + a.clone();
-    let coarse = Eigenfunction::new(laurent, low, enough, Some(eig.spine), BASE_RE)?;
+    let coarse = Eigenfunction::new(laurent, low, Some(eig.spine), BASE_RE)?;
     Ok(coarse.normalization(NORM_STEP)?)
 }
 
@@ -505,7 +483,7 @@ pub fn strip_map(
 ) -> Result<Vec<Vec<Option<Complex64>>>, ProfileError> {
     use rayon::prelude::*;
     let a = Complex64::new(p.modulus.to_f64(), 0.0);
-    let eig = Eigenfunction::new(laurent, a, 15.0, Some(p.spine), BASE_RE)?;
+    let eig = Eigenfunction::new(laurent, a, Some(p.spine), BASE_RE)?;
     im.par_iter()
         .map(|&y| {
             Ok(eig

@@ -21,6 +21,7 @@
 //! Handbook of Mathematical Functions (1964), 25.4.29 and 22.7.10.
 
 use crate::numerics::complex::CNum;
+use crate::precision::quadrature_node_bits;
 use rug::float::Constant;
 use rug::{Assign, Float};
 use std::collections::HashMap;
@@ -67,7 +68,7 @@ fn legendre_pair(n: usize, t: &Float) -> (Float, Float) {
 
 fn compute_rule(n: usize, prec: u32) -> Rule {
     // Newton at a few guard bits above the target, then rounded.
-    let wp = prec + 16;
+    let wp = quadrature_node_bits(prec);
     let pi = Float::with_val(wp, Constant::Pi);
     let half = n.div_ceil(2);
     let mut nodes = vec![Float::new(prec); n];
@@ -137,12 +138,6 @@ pub fn rule_f64(n: usize) -> Arc<RuleF64> {
         .expect("quadrature cache")
         .insert((n, 53), out.clone());
     out
-}
-
-/// Number of nodes for `digits` decimal digits per step of a path whose steps stay within
-/// 0.3 of the distance to the nearest singularity (docs/MATHEMATICS.md §6: ≈ 0.55·digits + 6).
-pub fn nodes_for_digits(digits: f64) -> usize {
-    (0.55 * digits + 6.0).ceil() as usize
 }
 
 /// Nodes and weights as values of the scalar type of `like` (f64 path for `Complex64`).

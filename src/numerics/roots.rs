@@ -22,6 +22,7 @@
 //! (1973) 339–344.
 
 use crate::numerics::complex::CNum;
+use crate::precision::{tolerance, unit_roundoff};
 use thiserror::Error;
 
 /// Why the roots could not be found.
@@ -63,8 +64,8 @@ pub fn polynomial_roots<T: CNum>(coeffs: &[T]) -> Result<Vec<T>, RootsError> {
         }
         (p, dp, size)
     };
-    let eps = 2f64.powi(-(prec as i32));
-    let tol = eps * 4096.0;
+    let eps = unit_roundoff(prec);
+    let tol = tolerance(prec, 12);
     let mut best = f64::INFINITY;
     let mut stalled = 0;
     for _ in 0..500 {

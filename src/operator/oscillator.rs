@@ -43,7 +43,7 @@
 use crate::curve::laurent::Laurent;
 use crate::numerics::hermitian::HermitianMatrix;
 use crate::operator::spectrum::HBAR;
-use crate::precision::{bits_for_digits, with_guard};
+use crate::precision::spectrum_bits;
 use num_complex::Complex64;
 use rug::float::Constant;
 use rug::ops::CompleteRound;
@@ -294,7 +294,7 @@ pub(crate) fn working_bits(terms: &[OscTerm], n: usize, threshold: f64, digits: 
         })
         .fold(f64::MIN, f64::max);
     let cond_bits = (ln_max + (n as f64).ln() - threshold.ln()) / std::f64::consts::LN_2;
-    with_guard(cond_bits.max(0.0).ceil() as u32 + bits_for_digits(digits as f64))
+    spectrum_bits(cond_bits, digits)
 }
 
 /// The N×N section of Ô in the frame's oscillator basis at `prec` bits: `Σ_terms w e^{iθ(j−k)}

@@ -19,6 +19,7 @@ use crate::output::files::OutputFile;
 use crate::output::plot::{
     self, AgreementBars, NuCurve, PlotError, ProfileSeries, ResidualSeries, StripMap,
 };
+use crate::precision::unit_roundoff;
 use num_complex::Complex64;
 
 /// One figure: its file stem, SVG document and a caption for reports.
@@ -99,8 +100,8 @@ pub fn residuals(family: &str, levels: &[&Profile]) -> Result<Figure, PlotError>
         })
         .collect();
     let bits: Vec<u32> = levels.iter().map(|p| p.precision_bits).collect();
-    let floor = (!bits.is_empty() && bits.iter().all(|&b| b == bits[0]))
-        .then(|| 2f64.powi(-(bits[0] as i32)));
+    let floor =
+        (!bits.is_empty() && bits.iter().all(|&b| b == bits[0])).then(|| unit_roundoff(bits[0]));
     Ok(Figure {
         name: format!("residual-{}", file_id(family)),
         svg: plot::residual_plot(&format!("{family}: eigen-equation residual"), &series, floor)?,

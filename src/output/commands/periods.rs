@@ -5,7 +5,7 @@ use crate::curve::periods;
 use crate::input::numbers::parse_modulus;
 use crate::output::records::{pretty, Document, Inputs, PeriodsRecord, PERIODS_NOTE};
 use crate::output::tables::periods_table;
-use crate::precision::{bits_for_digits, check_digits, with_guard};
+use crate::precision::{check_digits, working_bits};
 use serde::Serialize;
 use std::time::Instant;
 
@@ -41,7 +41,7 @@ const SERIES_TERMS: usize = 2000;
 pub fn periods(request: &PeriodsRequest) -> Result<Outcome, CommandError> {
     check_digits(request.digits)?;
     let sel = request.family.resolve()?;
-    let bits = with_guard(bits_for_digits(request.digits as f64));
+    let bits = working_bits(request.digits as f64);
     let a = parse_modulus(&request.modulus, bits, &sel.laurent)?;
     let start = Instant::now();
     let terms = sel.laurent.constant_terms(SERIES_TERMS)?;
