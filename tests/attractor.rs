@@ -162,7 +162,7 @@ fn perturbed_modulus_is_not_an_attractor() {
     // integer (the check can fail).
     let l = family("dP3");
     let at = attractor::solve_levels(&l, 1..=1, 30).unwrap();
-    let mut fam = attractor::Family::new(&l).unwrap();
+    let mut fam = attractor::HigherNormalFunction::new(&l).unwrap();
     let bits = at[0].precision_bits;
     let off = Float::with_val(bits, &at[0].modulus * Float::with_val(bits, 1.000001));
     let (nu, _, _, _) = fam.nu(&off, bits).unwrap();

@@ -228,8 +228,8 @@ fn shift_relation_on_independent_routes() {
                 below.chi_other
             };
             let [y1, y2] = eig.curve().roots(&z);
-            let y = if (eig.curve().d(&z, &y1) - here.d).norm()
-                < (eig.curve().d(&z, &y2) - here.d).norm()
+            let y = if (eig.curve().y_dphi_dy(&z, &y1) - here.d).norm()
+                < (eig.curve().y_dphi_dy(&z, &y2) - here.d).norm()
             {
                 y1
             } else {

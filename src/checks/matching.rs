@@ -48,7 +48,7 @@ pub(crate) fn match_both_ways(
     spec: &spectrum::Spectrum,
     window_eigenvalues: &[f64],
 ) -> Result<Vec<Unmatched>, AuditError> {
-    let mut fam = attractor::Family::new(laurent)?;
+    let mut fam = attractor::HigherNormalFunction::new(laurent)?;
     let mut moduli: Vec<(f64, i64)> = attractors
         .iter()
         .map(|a| (a.modulus.to_f64(), a.nu))
@@ -125,7 +125,11 @@ pub fn match_moduli(
 }
 
 /// A crossing ν = k of the scan refined by Newton in log a (double precision).
-fn refine_crossing(fam: &mut attractor::Family, t0: f64, k: i64) -> Result<f64, AuditError> {
+fn refine_crossing(
+    fam: &mut attractor::HigherNormalFunction,
+    t0: f64,
+    k: i64,
+) -> Result<f64, AuditError> {
     let mut t = t0;
     for _ in 0..30 {
         let (v, slope) = fam.nu_f64(t)?;

@@ -17,7 +17,7 @@
 //! `docs/MATHEMATICS.md` §4.
 
 use crate::checks::VerifyError;
-use crate::curve::attractor::Family;
+use crate::curve::attractor::HigherNormalFunction;
 use crate::curve::laurent::Laurent;
 
 /// ν on a grid uniform in log a, with the integer crossings.
@@ -48,7 +48,7 @@ pub fn nu_scan(laurent: &Laurent, a_max: f64, points: usize) -> Result<NuScan, V
             what: format!("no window above the threshold {threshold} up to {a_max}"),
         });
     }
-    let mut fam = Family::new(laurent)?;
+    let mut fam = HigherNormalFunction::new(laurent)?;
     let mut log_a = Vec::with_capacity(points);
     let mut nu = Vec::with_capacity(points);
     let mut increasing = true;

@@ -83,20 +83,22 @@ pub struct Attractor {
     pub precision_bits: u32,
 }
 
-/// The family data a solve needs: φ and its constant terms (for the α series).
+/// The higher normal function ν(a) of one family as a function of the modulus: φ, and its
+/// constant terms for the α series at a = ∞ (extended on demand). Evaluates ν and its
+/// derivatives in double precision or at any precision, and solves ν(a) = k.
 #[derive(Debug, Clone)]
-pub struct Family {
+pub struct HigherNormalFunction {
     pub laurent: Laurent,
     pub boundary_points: usize,
     constant_terms: Vec<Integer>,
 }
 
-impl Family {
+impl HigherNormalFunction {
     /// # Errors
     /// [`AttractorError::ConstantTerms`].
     pub fn new(laurent: &Laurent) -> Result<Self, AttractorError> {
         let boundary_points = laurent.terms().len();
-        Ok(Family {
+        Ok(HigherNormalFunction {
             laurent: laurent.clone(),
             boundary_points,
             constant_terms: laurent.constant_terms(200)?,
@@ -326,7 +328,7 @@ pub fn solve_levels_at(
     digits: u32,
     bits: u32,
 ) -> Result<Vec<Attractor>, AttractorError> {
-    let mut fam = Family::new(laurent)?;
+    let mut fam = HigherNormalFunction::new(laurent)?;
     let check_bits = confirming_bits(bits);
     // Phase 1 (sequential, double precision): each level's root seeds the next guess.
     let mut roots: Vec<(usize, i64, f64)> = Vec::new();

@@ -350,7 +350,7 @@ impl<T: CNum> Curve<T> {
 
     /// `D = A y − C/y` at (z, y), evaluated as the one of ±√Δ it is nearer to (Δ from the
     /// expanded polynomial: accurate where the two roots nearly coincide and `A y − C/y` cancels).
-    pub fn d(&self, z: &T, y: &T) -> T {
+    pub fn y_dphi_dy(&self, z: &T, y: &T) -> T {
         Self::sheet_of(&self.fiber(z), y).0
     }
 

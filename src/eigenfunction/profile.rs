@@ -259,7 +259,7 @@ fn resolve(
         Target::Attractor(at) => Ok(solved(at)),
         Target::Modulus(text) => {
             let a = numbers::parse_modulus(text, bits, laurent)?;
-            let mut fam = attractor::Family::new(laurent)?;
+            let mut fam = attractor::HigherNormalFunction::new(laurent)?;
             let (nu, _, _, _) = fam.nu(&a, bits)?;
             let nu = nu.to_f64();
             let nearest = nu.round();
