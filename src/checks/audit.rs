@@ -121,6 +121,26 @@ pub struct Audit {
 ///
 /// # Errors
 /// See [`AuditError`].
+///
+/// # Example
+/// Levels 0 and 1 of P2, matched both ways against the independent spectrum:
+/// ```
+/// use regwave::{run_audit, AuditOptions, Grid};
+/// let p2 = regwave::family("P2").unwrap();
+/// let options = AuditOptions {
+///     levels: 0..=1,
+///     digits: 16,
+///     grid: Grid::parse("-8:8:81").unwrap().values(),
+///     perturbation: 1e-6,
+///     spectrum_basis: 200,
+///     spectrum_max_basis: 300,
+/// };
+/// let audit = run_audit(&p2, &options, &regwave::progress::quiet).unwrap();
+/// assert!(audit.unmatched.is_empty());
+/// assert!(audit.levels.iter().all(|l| l.agreement_digits > 8.0));
+/// // The negative control: off the attractor modulus ψ is no longer single valued.
+/// assert!(audit.negative_control.defect() > 1e3 * audit.negative_control.cauchy_defect_at_attractor);
+/// ```
 pub fn run(
     laurent: &Laurent,
     options: &AuditOptions,

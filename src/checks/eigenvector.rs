@@ -26,7 +26,7 @@ use num_complex::Complex64;
 /// eigenfunction of `level`, relative to max|ψ|, after aligning the phase.
 ///
 /// # Errors
-/// [`VerifyError::MissingLevel`], or see [`EigenError`].
+/// [`VerifyError::MissingLevel`], or see [`crate::eigenfunction::construction::EigenError`].
 pub fn eigenvector_difference<T: CNum>(
     eig: &Eigenfunction<T>,
     spectrum: &Spectrum,

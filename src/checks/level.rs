@@ -200,7 +200,7 @@ pub struct Check {
 }
 
 /// Runs every check of docs/MATHEMATICS.md §7 on one eigenfunction (orthogonality needs several levels: see
-/// [`run`]). For a modulus that is not an attractor modulus (allowed explicitly) the level is the
+/// [`crate::checks::audit::run`]). For a modulus that is not an attractor modulus (allowed explicitly) the level is the
 /// nearest one, ν − 1 rounded.
 ///
 /// # Errors

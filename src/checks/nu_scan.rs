@@ -38,7 +38,7 @@ pub struct NuScan {
 /// offset 1e-6) to `a_max`, skipping points at the low end where ν is not computable.
 ///
 /// # Errors
-/// See [`AttractorError`]; [`VerifyError::Empty`] when `a_max` is not above the threshold.
+/// See [`crate::curve::attractor::AttractorError`]; [`VerifyError::Empty`] when `a_max` is not above the threshold.
 pub fn nu_scan(laurent: &Laurent, a_max: f64, points: usize) -> Result<NuScan, VerifyError> {
     let (_, threshold) = laurent.classical_minimum();
     let t0 = (threshold * (1.0 + 1e-6)).ln();

@@ -43,7 +43,7 @@ const ROUTE_POINTS: [f64; 4] = [-1.7, -0.3, 0.9, 2.2];
 /// base point at −0.8 and its spine 0.6 higher.
 ///
 /// # Errors
-/// See [`EigenError`].
+/// See [`crate::eigenfunction::construction::EigenError`].
 pub fn route_dependence<T: CNum>(
     laurent: &Laurent,
     eig: &Eigenfunction<T>,
@@ -70,7 +70,7 @@ const CAUCHY_POINTS: usize = 64;
 /// The largest Cauchy/closure defect of ψ around the branch points in the strip.
 ///
 /// # Errors
-/// See [`EigenError`].
+/// See [`crate::eigenfunction::construction::EigenError`].
 pub fn cauchy_defect<T: CNum>(eig: &Eigenfunction<T>) -> Result<f64, VerifyError> {
     let sing = eig.singular_points();
     let prec = eig.lambda.prec();

@@ -53,7 +53,7 @@ const ZERO_GRID: usize = 4001;
 /// Counts the zeros of ψ on R inside the outermost turning points (see the module docs).
 ///
 /// # Errors
-/// See [`EigenError`]; [`VerifyError::Empty`] when the branch points have no extent in Re.
+/// See [`crate::eigenfunction::construction::EigenError`]; [`VerifyError::Empty`] when the branch points have no extent in Re.
 pub fn zeros_inside<T: CNum>(
     eig: &Eigenfunction<T>,
     rule: Option<i64>,

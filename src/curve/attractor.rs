@@ -310,6 +310,17 @@ impl HigherNormalFunction {
 ///
 /// # Errors
 /// See [`AttractorError`].
+///
+/// # Example
+/// The ground state of P2 (x + y + 1/(xy)); the reference value was computed independently of
+/// this project (`docs/MATHEMATICS.md` §4).
+/// ```
+/// let p2 = regwave::family("P2").unwrap();
+/// let a = regwave::solve_levels(&p2, 0..=0, 25).unwrap();
+/// assert_eq!((a[0].level, a[0].nu), (0, 1));
+/// assert!(a[0].digits >= 25);
+/// assert!(a[0].modulus.to_string().starts_with("12.97003982179333743762395"));
+/// ```
 pub fn solve_levels(
     laurent: &Laurent,
     levels: std::ops::RangeInclusive<usize>,

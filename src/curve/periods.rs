@@ -482,10 +482,24 @@ pub struct Comparison {
     pub agreement_digits: Option<f64>,
 }
 
-/// [`Comparison`] at modulus a (real or complex), `bits` bits.
+/// [`Comparison`] at modulus a (real or complex), at the precision of `a`.
 ///
 /// # Errors
 /// See [`PeriodsError`].
+///
+/// # Example
+/// At the ground state of F0 the higher normal function is 1, and Ω_α, R_α by the series at
+/// a = ∞ and by path integration agree to the working precision:
+/// ```
+/// use regwave::{Complex, Float};
+/// let f0 = regwave::family("F0").unwrap();
+/// let a = Float::parse("17.846643118044799282389997").unwrap();
+/// let a = Complex::with_val(128, (Float::with_val(128, a), 0));
+/// let terms = f0.constant_terms(400).unwrap();
+/// let c = regwave::compare_periods(&f0, &a, &terms).unwrap();
+/// assert!((c.path.nu.real().to_f64() - 1.0).abs() < 1e-20);
+/// assert!(c.agreement_digits.unwrap() > 30.0);
+/// ```
 pub fn compare(
     laurent: &Laurent,
     a: &Complex,

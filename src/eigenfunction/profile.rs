@@ -191,6 +191,24 @@ struct Resolved {
 ///
 /// # Errors
 /// See [`ProfileError`].
+///
+/// # Example
+/// The ground state of the hexagon dP3 on R: unit L² norm, no zero inside the turning points,
+/// and e^{ir²/(8π)}ψ real (its reality rule k = −1):
+/// ```
+/// use regwave::{build_profile, Grid, ProfileOptions, Target};
+/// let dp3 = regwave::family("dP3").unwrap();
+/// let options = ProfileOptions {
+///     grid: Grid::parse("-8:8:81").unwrap().values(),
+///     strip: false,
+///     digits: 16,
+///     allow_non_attractor: false,
+/// };
+/// let psi = build_profile(&dp3, &Target::Level(0), &options).unwrap();
+/// assert_eq!(psi.rule, Some(-1));
+/// assert!(psi.reality_defect.unwrap() < 1e-9);
+/// assert!((regwave::checks::norms::norm_coarse(&psi.normalization) - 1.0).abs() < 1e-12);
+/// ```
 pub fn build(
     laurent: &Laurent,
     target: &Target,
@@ -468,8 +486,8 @@ fn normalization<T: CNum + Send + Sync>(
     Ok(coarse.normalization(NORM_STEP)?)
 }
 
-/// ψ of a profile (its normalization and phase) on the lines Im r = im[j] at the real parts `re`
-/// (values[j][k] at re[k] + i·im[j]; None on a pole), in double precision, the lines in
+/// ψ of a profile (its normalization and phase) on the lines Im r = `im[j]` at the real parts
+/// `re` (`values[j][k]` at `re[k] + i·im[j]`; None on a pole), in double precision, the lines in
 /// parallel: for pictures of |ψ| and arg ψ over the strip, not for digits (at high levels the
 /// double-precision exponential loses log₁₀|λ| digits).
 ///

@@ -5,7 +5,7 @@
 //! - [`commands`]: what each `regwave` command runs and writes (the binary's library side).
 //! - [`records`]: the JSON documents, typed; [`decimal`]: numbers with their supported digits.
 //! - [`tables`], [`markdown`], [`csv`]: text for terminals, reports and data files.
-//! - [`figures`] and [`plot`] (feature `figures`): the figures of audits and profiles.
+//! - `figures` and `plot` (feature `figures`): the figures of audits and profiles.
 //! - [`files`]: writing outputs whole or not at all.
 
 pub mod commands;

@@ -35,7 +35,7 @@ pub struct AuditRequest {
         arg(long, default_value = "-12:12:241", allow_hyphen_values = true)
     )]
     pub grid: String,
-    /// Output directory (default out/audit-<family>).
+    /// Output directory (default out/audit-FAMILY).
     #[cfg_attr(feature = "cli", arg(long))]
     pub out: Option<PathBuf>,
     /// Replace existing outputs.
