@@ -6,9 +6,10 @@
 //! `Ω_γ = ∫_γ dz / D`, `R_γ = ∫_γ z d log(−y) − log(−y(p₀)) ∫_γ dz` (the Beilinson regulator of
 //! {−x, −y} in the coordinate z, x = −e^z; principal logarithm).
 //! - **α** (the torus circle): z from z₀ to z₀ − 2πi on the root of small modulus, z₀ = z_α + iπ.
-//!   z_α = 0 unless A or C vanishes at x = −1 (a puncture at z = 0), then z_α = 1/2; the
-//!   puncture lies in the middle of the path, where z = 0, so the residue z·d log y there is 0
-//!   and the value equals the torus integral. At a = ∞ (|a| > φ(1,1)):
+//!   z_α = 0 unless A or C vanishes at x = −1 (a puncture at z = 0), then z_α = 1/2 keeps the
+//!   path off the puncture; moving the path across z = 0 changes R_α by 2πi times the residue
+//!   of z·d log y there, which vanishes (the factor z is 0), so the value is the torus integral
+//!   over |x| = 1 either way. At a = ∞ (|a| > φ(1,1)):
 //!   `Ω_α = −2πi Σ_{n≥0} (−1)ⁿ [φⁿ]₀ a^{−n−1}`, `R_α = −2πi (log a − Σ_{n≥1} (−1)ⁿ [φⁿ]₀ / (n aⁿ))`.
 //! - **β** (rule valid for all 15 families): the circle |x| = e^{z_α} separates the four branch
 //!   points of the x-line into two inside and two outside (0 and ∞ count when they branch);

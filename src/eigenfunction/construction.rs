@@ -22,8 +22,8 @@
 //!
 //! # Accuracy
 //! That of the path integrals ([`crate::curve::cover`]) times the condition of exp and of the
-//! difference χ − χ∘ι̃ (large where |ψ| is small: see the tail and branch-point notes of the
-//! verification module when it lands). Measured: see `tests/eigenfn.rs`. In the tails the
+//! difference χ − χ∘ι̃ (large where |ψ| is small; `docs/MATHEMATICS.md` §6 lists the measured
+//! losses). Measured: see `tests/eigenfn.rs`. In the tails the
 //! sheets are carried by D ([`crate::curve::cover::SheetPoint`]), so the continuation reaches any |r|;
 //! at an end where the two roots merge ([`crate::curve::cover::EndRoots::Merging`]) χ and χ∘ι̃ tend to
 //! the same value and the difference loses ≈ |r|/(2 ln 10) digits (F0* level 1 in double
