@@ -1,5 +1,5 @@
 //! The decay rates κ of |ψ| ~ e^{−κ|r|} on R for every strip family, from the envelope fit of
-//! `Eigenfunction::normalization` (the table "Measured decay of ψ on R" in DEVELOPERS.md):
+//! `Eigenfunction::normalization` (the decay table of docs/MATHEMATICS.md §2):
 //! `cargo run --release --example decay_rates -- 1` (level; default 1).
 use num_complex::Complex64;
 use regwave::eigenfunction::construction::Eigenfunction;

@@ -32,7 +32,8 @@
 //!
 //! # Decay on R
 //! |ψ| ≈ c |r|^p e^{−κ|r|} with κ = 1/2 at a branched end and 1 otherwise, p ≈ 1 at a merging
-//! end ([`crate::eigenfunction::normalization::envelope_decay`]; the table of all 15 families is in `DEVELOPERS.md`).
+//! end ([`crate::eigenfunction::normalization::envelope_decay`]; the table of all 15 families is in
+//! `docs/MATHEMATICS.md` §2).
 //!
 //! # Errors
 //! [`EigenError`].

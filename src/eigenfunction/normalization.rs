@@ -166,7 +166,7 @@ pub struct Decay {
 /// the parabola through log|ψ| at the three grid points) when there are at least four (ψ
 /// oscillates while it decays), all points otherwise. The power p matters: where the two roots
 /// merge as x → 0 or ∞, |ψ| ~ |r| e^{−|r|}, and a pure exponential fitted over |r| ≲ 40 reads
-/// κ ≈ 0.95 (measured; `DEVELOPERS.md`, the decay table). NaN when fewer than four points remain.
+/// κ ≈ 0.95 (measured; the decay table of `docs/MATHEMATICS.md` §2). NaN when fewer than four points remain.
 pub fn envelope_decay(grid: &[f64], abs_psi: &[f64], side: f64, peak: f64) -> Decay {
     let n = grid.len().min(abs_psi.len());
     let usable = |i: usize| {
