@@ -4,8 +4,8 @@
 
 use num_complex::Complex64;
 use regwave::checks::{eigenvector, zeros};
-use regwave::curve::attractor;
 use regwave::curve::laurent::Laurent;
+use regwave::curve::{attractor, cycles};
 use regwave::eigenfunction::construction::Eigenfunction;
 use regwave::input::selection;
 use regwave::operator::quantum_curve::QuantumCurve;
@@ -193,7 +193,6 @@ fn shift_relation_on_independent_routes() {
     // the β cycle. Holds at the attractor modulus, fails off it (a β loop multiplies χ by
     // e^{−2πiν}, ν no longer an integer). dP3's pair ±r_c + is shares its real parts with the
     // conjugate pair ±r_c − is, which the staircase passes between.
-    use regwave::curve::periods;
     let two_pi = 2.0 * std::f64::consts::PI;
     let same_point = |u: [f64; 2], v: [f64; 2]| {
         let k = ((u[1] - v[1]) / two_pi).round();
@@ -207,9 +206,7 @@ fn shift_relation_on_independent_routes() {
         let defect = |a: f64, spine: Option<f64>| -> (f64, f64) {
             let eig = Eigenfunction::new(&l, Complex64::new(a, 0.0), spine, 0.3).unwrap();
             let sing = eig.curve().singular_points().unwrap();
-            let pair = periods::beta_loop(eig.curve(), &sing)
-                .unwrap()
-                .branch_points;
+            let pair = cycles::beta_loop(eig.curve(), &sing).unwrap().branch_points;
             let b0 = eig.sheet_branch_point;
             assert!(
                 pair.iter().any(|&b| same_point(b, b0)),

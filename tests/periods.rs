@@ -3,6 +3,7 @@
 
 use regwave::curve::continuation::March;
 use regwave::curve::cover::Curve;
+use regwave::curve::cycles;
 use regwave::curve::laurent::Laurent;
 use regwave::curve::periods::{self, CyclePeriods};
 use regwave::input::selection;
@@ -136,10 +137,10 @@ fn homologous_beta_loops_give_the_same_periods() {
         let curve = Curve::new(&l, a).unwrap();
         let sing = curve.singular_points().unwrap();
         let march = March::for_digits(36.0);
-        let rule = periods::beta_loop(&curve, &sing).unwrap();
+        let rule = cycles::beta_loop(&curve, &sing).unwrap();
         let [b0, b1] = rule.branch_points;
         let one = periods::loop_periods(&curve, &sing, &rule.polyline, &march).unwrap();
-        let narrow = periods::stadium(b0, b1, 0.02);
+        let narrow = cycles::stadium(b0, b1, 0.02);
         let two = periods::loop_periods(&curve, &sing, &narrow, &march).unwrap();
         // Same orientation and sheet up to a common sign.
         let sign = if rel(&one.omega, &two.omega) < 1e-3 {

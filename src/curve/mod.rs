@@ -6,5 +6,6 @@ pub mod attractor;
 pub mod constant_terms;
 pub mod continuation;
 pub mod cover;
+pub mod cycles;
 pub mod laurent;
 pub mod periods;
