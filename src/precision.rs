@@ -134,12 +134,33 @@ pub fn confirming_bits(bits: u32) -> u32 {
 /// apart, far beyond the levels where the β loop's double-precision layout still works.
 pub const SEARCH_FALLBACK_BITS: u32 = 128;
 
+/// Bits at which the double-precision Gauss–Legendre rules are computed before rounding to f64:
+/// far more than the 53 they keep, so that every node and weight is correctly rounded.
+pub const DOUBLE_RULE_BITS: u32 = 128;
+
+/// Stopping tolerance of inverse iteration for eigenvalues wanted to `digits` digits: six digits
+/// beyond them, so that the iteration error stays far below the basis error the ladder measures.
+pub fn inverse_iteration_tolerance(digits: u32) -> f64 {
+    10f64.powi(-(digits as i32) - 6)
+}
+
 /// Bits lost to rounding by the sum of a series or a path integral of a few thousand terms, for
 /// error estimates: 8.
 pub const SUM_ROUNDING_BITS: u32 = 8;
 
 // ---------------------------------------------------------------------------------------------
 // Attractor moduli, eigenfunctions and their diagnostics
+
+/// A given modulus counts as an attractor modulus when ν is this close to an integer: far above
+/// the error of ν at any working precision the commands accept (≤ 1e-12 at double precision),
+/// far below the distance 1e-5…1e-3 that a relative perturbation of 1e-6 moves ν.
+pub const ATTRACTOR_TOLERANCE: f64 = 1e-6;
+
+/// Smallest relative tolerance for a match of an attractor modulus and an eigenvalue of the
+/// independent spectrum (which is compared within 100 × its own error estimate when that is
+/// larger): above the agreement of the two at double precision, below the relative gaps between
+/// eigenvalues.
+pub const MATCH_FLOOR: f64 = 1e-8;
 
 /// Attractor moduli are solved to at least this many digits before a profile or audit uses them
 /// (a profile re-solves at its working precision when it needs more).

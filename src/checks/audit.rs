@@ -11,7 +11,7 @@
 //!    ([`crate::curve::attractor`], to the requested digits); any other crossing is refined in double
 //!    precision and must match an eigenvalue too.
 //! 3. Matching, both ways ([`crate::checks::matching`]): an attractor modulus a and an eigenvalue E match when
-//!    |a − E|/E < max([`crate::checks::matching::MATCH_FLOOR`], 100 × the spectrum's relative error estimate); an attractor
+//!    |a − E|/E < max([`crate::precision::MATCH_FLOOR`], 100 × the spectrum's relative error estimate); an attractor
 //!    modulus without an eigenvalue or an eigenvalue without an attractor modulus is listed in
 //!    `unmatched`, with its nearest partner and gap. A match between different level labels is
 //!    listed too.

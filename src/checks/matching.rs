@@ -1,7 +1,7 @@
 //! Matching attractor moduli and independent eigenvalues, both ways.
 //!
 //! # Rule
-//! An attractor modulus a and an eigenvalue E match when |a − E|/E < max([`MATCH_FLOOR`], 100 ×
+//! An attractor modulus a and an eigenvalue E match when |a − E|/E < max([`crate::precision::MATCH_FLOOR`], 100 ×
 //! the spectrum's relative error estimate). An attractor modulus without an eigenvalue, an
 //! eigenvalue without an attractor modulus, and a match between different level labels are each
 //! reported as [`Unmatched`], with the nearest partner and the gap. Every attractor modulus is an
@@ -16,9 +16,7 @@ use crate::checks::nu_scan::NuScan;
 use crate::curve::attractor::{self, LEVEL_OFFSET};
 use crate::curve::laurent::Laurent;
 use crate::operator::spectrum;
-
-/// Smallest relative tolerance for a match of an attractor modulus and an eigenvalue.
-pub const MATCH_FLOOR: f64 = 1e-8;
+use crate::precision::MATCH_FLOOR;
 
 /// An attractor modulus without an eigenvalue, or an eigenvalue without an attractor modulus.
 #[derive(Debug, Clone, PartialEq, serde::Serialize)]

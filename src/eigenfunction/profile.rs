@@ -5,7 +5,7 @@
 //!
 //! # Method
 //! 1. The modulus: the attractor modulus of a level (ν = n + 1, [`crate::curve::attractor`]), or a given
-//!    modulus, refused when ν is more than [`ATTRACTOR_TOLERANCE`] from an integer unless allowed.
+//!    modulus, refused when ν is more than [`crate::precision::ATTRACTOR_TOLERANCE`] from an integer unless allowed.
 //! 2. The working precision: the exponent integrals grow like |λ| = |R_α/Ω_α| (≈ 50 at F0 level 0,
 //!    2e5 at level 9) and exp loses log₁₀|λ| digits (measured residual ≈ 2e-15·|λ| in double
 //!    precision), so the double-precision path is used only while that stays below 1e-11; else
@@ -50,16 +50,14 @@ use crate::numerics::serial;
 use crate::operator::quantum_curve::QuantumCurve;
 use crate::precision::{
     digits_for_bits, digits_of, lambda_loss_digits, normalization_digits, profile_digits,
-    profile_digits_after_loss, profile_in_double, working_bits, DIGITS_LEFT_MIN, DOUBLE_BITS,
-    MAX_DIGITS, MIN_ATTRACTOR_DIGITS,
+    profile_digits_after_loss, profile_in_double, working_bits, ATTRACTOR_TOLERANCE,
+    DIGITS_LEFT_MIN, DOUBLE_BITS, MAX_DIGITS, MIN_ATTRACTOR_DIGITS,
 };
 use crate::progress::{Counter, Observer, Stage};
 use num_complex::Complex64;
 use rug::Float;
 use thiserror::Error;
 
-/// A given modulus counts as an attractor modulus when ν is this close to an integer.
-pub const ATTRACTOR_TOLERANCE: f64 = 1e-6;
 /// Step of the normalization quadrature on R.
 pub const NORM_STEP: f64 = 0.05;
 /// Real part of the base point on the spine.

@@ -39,6 +39,7 @@
 //! "Matrix Computations", 4th ed. (2013): §4.2 (Cholesky), §3.1 (triangular systems), §5.2
 //! (Gram–Schmidt), §8.2 (subspace iteration, Rayleigh–Ritz), §8.5 (Jacobi methods).
 
+use crate::precision::{inverse_iteration_tolerance, SUM_ROUNDING_BITS};
 use rayon::prelude::*;
 use rug::{Assign, Float};
 use thiserror::Error;
@@ -325,7 +326,10 @@ pub fn hermitian_eigen(
         .map(|i| Float::with_val(prec, (i / b == i % b) as u32))
         .collect();
     let mut vi: Vec<Float> = vec![Float::new(prec); b * b];
-    let eps = Float::with_val(prec, Float::i_exp(1, 8 - prec as i32));
+    let eps = Float::with_val(
+        prec,
+        Float::i_exp(1, SUM_ROUNDING_BITS as i32 - prec as i32),
+    );
     let mut f = [
         Float::new(prec),
         Float::new(prec),
@@ -551,7 +555,7 @@ pub fn lowest_eigenpairs(
     let (re, im): (Vec<_>, Vec<_>) = columns.into_iter().unzip();
     let mut z = Block { re, im };
     orthonormalize(&mut z, prec);
-    let tol = 10f64.powi(-(digits as i32) - 6);
+    let tol = inverse_iteration_tolerance(digits);
     let mut previous: Option<Vec<f64>> = None;
     let max_iter = 400;
     let mut change = f64::INFINITY;

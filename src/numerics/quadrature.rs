@@ -21,7 +21,7 @@
 //! Handbook of Mathematical Functions (1964), 25.4.29 and 22.7.10.
 
 use crate::numerics::complex::CNum;
-use crate::precision::quadrature_node_bits;
+use crate::precision::{quadrature_node_bits, DOUBLE_RULE_BITS};
 use rug::float::Constant;
 use rug::{Assign, Float};
 use std::collections::HashMap;
@@ -128,7 +128,7 @@ pub fn rule_f64(n: usize) -> Arc<RuleF64> {
     if let Some(r) = cache.lock().expect("quadrature cache").get(&(n, 53)) {
         return r.clone();
     }
-    let r = rule(n, 128);
+    let r = rule(n, DOUBLE_RULE_BITS);
     let out = Arc::new(RuleF64 {
         nodes: r.nodes.iter().map(|x| x.to_f64()).collect(),
         weights: r.weights.iter().map(|x| x.to_f64()).collect(),
