@@ -136,13 +136,16 @@ fn execute(command: Command) -> Result<(), CommandError> {
     }
 }
 
-/// Prints the JSON document or the text.
+/// Prints the JSON document or the text. A reader that stops early (`| head`) is not an error.
 fn show(json: Json, outcome: &Outcome) -> Result<(), CommandError> {
-    if json.json {
-        println!("{}", outcome.json);
+    use std::io::Write;
+    let mut out = std::io::stdout().lock();
+    let _ = if json.json {
+        writeln!(out, "{}", outcome.json)
     } else {
-        print!("{}", outcome.text);
+        write!(out, "{}", outcome.text)
     }
+    .and_then(|_| out.flush());
     Ok(())
 }
 
