@@ -36,6 +36,15 @@ pub enum ZeroMethod {
     PhaseSlips,
 }
 
+impl std::fmt::Display for ZeroMethod {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        f.write_str(match self {
+            ZeroMethod::SignChanges => "sign changes of the real function of the reality rule",
+            ZeroMethod::PhaseSlips => "phase slips of the complex ψ",
+        })
+    }
+}
+
 /// Zeros of ψ between the outermost real parts of the branch points.
 #[derive(Debug, Clone, PartialEq, serde::Serialize)]
 pub struct Zeros {

@@ -242,7 +242,7 @@ pub fn check_text(family: &str, c: &Check, elapsed_s: f64) -> String {
         p.normalization.decay[0], p.normalization.decay[1]
     ));
     out.push_str(&format!(
-        "  zeros inside the turning points        {} ({:?}, window [{:.3}, {:.3}])\n",
+        "  zeros inside the turning points        {} ({}, window [{:.3}, {:.3}])\n",
         l.zeros.count, l.zeros.method, l.zeros.window[0], l.zeros.window[1]
     ));
     out.push_str(&format!(
