@@ -19,7 +19,7 @@ fn main() {
     let options = AuditOptions {
         levels: low..=top,
         digits,
-        grid: (0..241).map(|k| -12.0 + 0.1 * k as f64).collect(),
+        grid: regwave::Grid::new(-12.0, 12.0, 241),
         perturbation: 1e-6,
         spectrum_basis: 200,
         spectrum_max_basis: 300,

@@ -9,7 +9,7 @@ fn main() {
         .nth(3)
         .and_then(|s| s.parse().ok())
         .unwrap_or(16);
-    let grid: Vec<f64> = (0..241).map(|k| -12.0 + 0.1 * k as f64).collect();
+    let grid = regwave::Grid::new(-12.0, 12.0, 241);
     let p = profile::build(
         &l,
         &Target::Level(level),
@@ -32,7 +32,7 @@ fn main() {
     println!(
         "{id} level {level}: bits {} lambda {:.3e} max {:.2e}",
         p.precision_bits,
-        p.lambda.norm(),
+        regwave::numerics::complex::CNum::abs_f64(&p.lambda),
         r.max
     );
     for (x, v) in worst.iter().take(8) {

@@ -20,7 +20,7 @@
 //! // ψ on a grid of R and on the lines Im r = ±2π, normalized, with the residual of
 //! // A ψ(r − 2πi) + C ψ(r + 2πi) = (B + a) ψ(r), each side integrated along its own route.
 //! let options = ProfileOptions {
-//!     grid: Grid::parse("-6:6:61")?.values(),
+//!     grid: Grid::parse("-6:6:61")?,
 //!     strip: true,
 //!     digits: 16,
 //!     allow_non_attractor: false,

@@ -12,7 +12,7 @@ fn run(id: &str, digits: u32) -> Audit {
     let options = AuditOptions {
         levels: 0..=4,
         digits,
-        grid: (0..=120).map(|k| -12.0 + 0.2 * k as f64).collect(),
+        grid: regwave::Grid::new(-12.0, 12.0, 121),
         perturbation: 1e-6,
         spectrum_basis: 200,
         spectrum_max_basis: 300,

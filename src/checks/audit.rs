@@ -46,6 +46,7 @@ use crate::curve::laurent::Laurent;
 use crate::curve::periods;
 use crate::eigenfunction::construction::EigenError;
 use crate::eigenfunction::profile::{self, ProfileError, ProfileOptions, Target};
+use crate::input::grid::Grid;
 use crate::operator::spectrum::{self, SpectrumError, SpectrumOptions};
 use crate::precision::{working_bits, DOUBLE_DIGITS, MIN_ATTRACTOR_DIGITS};
 use crate::progress::{Counter, Observer, Stage};
@@ -80,13 +81,21 @@ pub struct AuditOptions {
     /// Requested digits (attractor moduli and profiles; 16 or less: double precision where it
     /// suffices).
     pub digits: u32,
-    /// Real parts of the residual grid.
-    pub grid: Vec<f64>,
+    /// The grid of the residual and the profiles.
+    pub grid: Grid,
     /// Relative perturbation of the level-0 modulus for the negative control.
     pub perturbation: f64,
     /// Spectrum bases: solved at `basis` and up the ladder to `max_basis`.
     pub spectrum_basis: usize,
     pub spectrum_max_basis: usize,
+}
+
+/// An eigenvalue of the independent spectrum inside the audit window, with its error estimate.
+#[derive(Debug, Clone, serde::Serialize)]
+pub struct WindowEigenvalue {
+    #[serde(serialize_with = "crate::numerics::serial::float")]
+    pub value: rug::Float,
+    pub error_estimate: f64,
 }
 
 /// A whole audit.
@@ -104,7 +113,7 @@ pub struct Audit {
     /// The modulus window (threshold, upper end].
     pub window: [f64; 2],
     /// Eigenvalues of the spectrum inside the window.
-    pub eigenvalues_in_window: Vec<f64>,
+    pub eigenvalues_in_window: Vec<WindowEigenvalue>,
     /// Series-vs-path agreement of Ω_α, R_α at the largest audited modulus (None: below the
     /// series radius).
     pub period_agreement_digits: Option<f64>,
@@ -130,7 +139,7 @@ pub struct Audit {
 /// let options = AuditOptions {
 ///     levels: 0..=1,
 ///     digits: 16,
-///     grid: Grid::parse("-8:8:81").unwrap().values(),
+///     grid: Grid::parse("-8:8:81").unwrap(),
 ///     perturbation: 1e-6,
 ///     spectrum_basis: 200,
 ///     spectrum_max_basis: 300,
@@ -175,9 +184,20 @@ pub fn run(
             audit
         })
         .collect::<Result<_, _>>()?;
-    let eigenvalues_in_window: Vec<f64> =
-        (0..=hi + 1).map(e).filter(|&v| v <= window_top).collect();
-    let unmatched = match_both_ways(laurent, &scan, &attractors, &spec, &eigenvalues_in_window)?;
+    let eigenvalues_in_window: Vec<WindowEigenvalue> = spec
+        .levels
+        .iter()
+        .filter(|l| l.value.to_f64() <= window_top)
+        .map(|l| WindowEigenvalue {
+            value: l.value.clone(),
+            error_estimate: l.error_estimate,
+        })
+        .collect();
+    let window_values: Vec<f64> = eigenvalues_in_window
+        .iter()
+        .map(|w| w.value.to_f64())
+        .collect();
+    let unmatched = match_both_ways(laurent, &scan, &attractors, &spec, &window_values)?;
     let norms: Vec<_> = levels.iter().map(|l| &l.profile.normalization).collect();
     let orthogonality = norms::orthogonality(&norms);
     let (mut off, mut diag): (f64, f64) = (0.0, 0.0);

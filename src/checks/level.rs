@@ -27,6 +27,7 @@ use crate::curve::laurent::Laurent;
 use crate::curve::periods;
 use crate::eigenfunction::construction::Eigenfunction;
 use crate::eigenfunction::profile::{self, Profile, ProfileOptions, Target, BASE_RE};
+use crate::input::grid::Grid;
 use crate::numerics::complex::CNum;
 use crate::operator::spectrum::{self, SpectrumOptions};
 use crate::precision::{self, working_bits, DOUBLE_BITS, DOUBLE_DIGITS, MIN_ATTRACTOR_DIGITS};
@@ -81,7 +82,7 @@ impl NegativeControl {
 
 /// The precision of the diagnostics of a profile ([`crate::precision::diagnostic_bits`]).
 pub fn diagnostic_bits(p: &Profile) -> u32 {
-    precision::diagnostic_bits(p.lambda.norm())
+    precision::diagnostic_bits(p.lambda.abs_f64())
 }
 
 /// The per-level figures at the diagnostic precision.
@@ -163,7 +164,7 @@ pub(crate) fn level_audit(
     );
     Ok(LevelAudit {
         level,
-        nu: profile.nu.round() as i64,
+        nu: profile.nu.to_f64().round() as i64,
         spectrum_value: sl.value.clone(),
         spectrum_error: sl.error_estimate,
         agreement_digits,
@@ -182,7 +183,8 @@ pub(crate) fn level_audit(
 /// What `check` examines.
 #[derive(Debug, Clone)]
 pub struct CheckOptions {
-    pub grid: Vec<f64>,
+    /// The grid of the residual and the profile.
+    pub grid: Grid,
     pub digits: u32,
     pub allow_non_attractor: bool,
     /// Relative perturbation of the modulus for the negative control.
@@ -220,7 +222,7 @@ pub fn check(
     // The level to compare with: the attractor's, or for a modulus off the attractor values the
     // nearest one.
     let level = profile.level.unwrap_or_else(|| {
-        (profile.nu.round().max(LEVEL_OFFSET as f64) as i64 - LEVEL_OFFSET) as usize
+        (profile.nu.to_f64().round().max(LEVEL_OFFSET as f64) as i64 - LEVEL_OFFSET) as usize
     });
     let spec = spectrum::solve(
         laurent,

@@ -44,7 +44,7 @@ pub struct Residual {
     pub pole_limits: usize,
 }
 
-/// The residual on `grid` from ψ on the three lines Im r = 0 (`real_line`), +2π (`upper`) and
+/// The residual at the real parts `points` (at the working precision) from ψ on the three lines Im r = 0 (`real_line`), +2π (`upper`) and
 /// −2π (`lower`), each integrated along its own route, at the working precision of `eig`; `None`
 /// on a boundary line marks a pole of ψ, where the product is evaluated as a limit.
 ///
@@ -53,39 +53,37 @@ pub struct Residual {
 pub fn eigen_equation_residual<T: CNum>(
     q: &QuantumCurve,
     eig: &Eigenfunction<T>,
-    grid: &[f64],
+    points: &[T],
     real_line: &[Option<T>],
     upper: &[Option<T>],
     lower: &[Option<T>],
 ) -> Result<Residual, EigenError> {
-    let prec = eig.lambda.prec();
     let scale = real_line
         .iter()
         .flatten()
         .map(|v| v.abs_f64())
         .fold(0.0, f64::max);
     let a = eig.curve().modulus().clone();
-    let mut per_point = Vec::with_capacity(grid.len());
+    let mut per_point = Vec::with_capacity(points.len());
     let mut pole_limits = 0;
-    for (k, &r) in grid.iter().enumerate() {
+    for (k, z) in points.iter().enumerate() {
         let Some(m) = &real_line[k] else {
             per_point.push(None);
             continue;
         };
-        let z = T::from_f64s(r, 0.0, prec);
-        let c = q.coefficients(&z);
+        let c = q.coefficients(z);
         let down = match &lower[k] {
             Some(d) => c.down * d.clone(),
             None => {
                 pole_limits += 1;
-                pole_product(eig, q, &z, -1)?
+                pole_product(eig, q, z, -1)?
             }
         };
         let up = match &upper[k] {
             Some(u) => c.up * u.clone(),
             None => {
                 pole_limits += 1;
-                pole_product(eig, q, &z, 1)?
+                pole_product(eig, q, z, 1)?
             }
         };
         let res = down + (c.centre - a.clone()) * m.clone() + up;
@@ -171,8 +169,9 @@ mod tests {
         let two_pi = 2.0 * std::f64::consts::PI;
         let line = |im: f64| eig.psi_on_line(&grid, im).unwrap();
         let (real_line, upper, lower) = (line(0.0), line(two_pi), line(-two_pi));
+        let points: Vec<Complex64> = grid.iter().map(|&r| Complex64::new(r, 0.0)).collect();
         let residual = |q: &QuantumCurve| {
-            eigen_equation_residual(q, &eig, &grid, &real_line, &upper, &lower).unwrap()
+            eigen_equation_residual(q, &eig, &points, &real_line, &upper, &lower).unwrap()
         };
         let right = residual(&QuantumCurve::new(&l).unwrap());
         assert_eq!(right.pole_limits, 2, "both products at r = 0 are limits");

@@ -350,6 +350,23 @@ impl<T: CNum> Eigenfunction<T> {
         grid: &[f64],
         im: f64,
     ) -> Result<(Vec<Option<T>>, f64), EigenError> {
+        let prec = self.lambda.prec();
+        let exact: Vec<T> = grid.iter().map(|&r| T::from_f64s(r, 0.0, prec)).collect();
+        self.psi_on_line_at(&exact, im)
+    }
+
+    /// As [`Eigenfunction::psi_on_line_with_loss`] at real parts given at the working precision
+    /// (their imaginary parts are ignored): ψ is evaluated at exactly these points, e.g. the
+    /// points of a decimal grid rounded to the working precision rather than to f64.
+    ///
+    /// # Errors
+    /// See [`Eigenfunction::psi_on_line`].
+    pub fn psi_on_line_at(
+        &self,
+        points: &[T],
+        im: f64,
+    ) -> Result<(Vec<Option<T>>, f64), EigenError> {
+        let grid: Vec<f64> = points.iter().map(|p| p.re_f64()).collect();
         // Loss relative to the scale of ψ on the line (zeros of ψ are not losses).
         let (mut largest_term, mut largest_value): (f64, f64) = (0.0, 0.0);
         let prec = self.lambda.prec();
@@ -401,11 +418,12 @@ impl<T: CNum> Eigenfunction<T> {
             let (mut a1, mut f1, mut f2) = (s1.clone(), e1.clone(), e2.clone());
             for i in side {
                 let r = grid[i];
-                let z = T::from_f64s(r, 0.0, prec) + line_im.clone();
+                let re = points[i].clone() - T::from_f64s(0.0, points[i].im_f64(), prec);
+                let z = re.clone() + line_im.clone();
                 if self.distance_to_pole(&z) < 1e-12 {
                     continue;
                 }
-                let on_spine = T::from_f64s(r, spine, prec);
+                let on_spine = re + T::from_f64s(0.0, spine, prec);
                 let along = [a1.z.clone(), on_spine.clone()];
                 let (p1, i1) =
                     continue_sheet(&self.curve, &self.singular, &a1, &along, &self.march)?;

@@ -43,6 +43,7 @@ use crate::eigenfunction::construction::{EigenError, Eigenfunction};
 use crate::eigenfunction::normalization::Normalization;
 use crate::eigenfunction::phase;
 use crate::eigenfunction::poles::{self, Pole};
+use crate::input::grid::Grid;
 use crate::input::numbers;
 use crate::input::selection::SelectionError;
 use crate::numerics::complex::CNum;
@@ -113,8 +114,9 @@ pub enum Target {
 /// What to sample and how precisely.
 #[derive(Debug, Clone)]
 pub struct ProfileOptions {
-    /// Real parts of the grid.
-    pub grid: Vec<f64>,
+    /// The grid of real parts: exact, its points rounded to the working precision (to f64 in
+    /// double precision).
+    pub grid: Grid,
     /// Also sample the lines Im r = ±2π (and form the residual).
     pub strip: bool,
     /// Requested decimal digits (16 or less: double precision where it suffices).
@@ -134,11 +136,14 @@ pub struct Profile {
     /// Its confirmed digits: those of the attractor solve (a second solve at higher precision
     /// agrees on them), or the digits of a given modulus as typed.
     pub modulus_digits: u32,
-    /// ν at the modulus and its distance to the nearest integer.
-    pub nu: f64,
+    /// ν at the modulus (at the precision it was computed at: the integer itself for an
+    /// attractor modulus solved to the requested digits) and its distance to the nearest integer.
+    #[serde(serialize_with = "serial::float")]
+    pub nu: Float,
     pub nu_distance: f64,
-    #[serde(serialize_with = "serial::complex64")]
-    pub lambda: Complex64,
+    /// λ = R_α/Ω_α at the working precision.
+    #[serde(serialize_with = "serial::complex")]
+    pub lambda: rug::Complex,
     pub spine: f64,
     #[serde(serialize_with = "serial::complex64")]
     pub base: Complex64,
@@ -151,6 +156,10 @@ pub struct Profile {
     /// Digits consumed by χ − χ∘ι̃ on R, and on all three lines.
     pub cancellation_digits: f64,
     pub strip_cancellation_digits: Option<f64>,
+    /// The grid as given (exact).
+    #[serde(skip)]
+    pub grid_spec: Grid,
+    /// The grid points rounded to f64 (for figures and double-precision checks).
     pub grid: Vec<f64>,
     /// ψ on R at the grid points, normalized and phase-fixed (None: not sampled).
     #[serde(serialize_with = "serial::complex64_line")]
@@ -161,6 +170,9 @@ pub struct Profile {
     /// ψ on the boundary line Im r = −2π (empty without `strip`; None on a pole).
     #[serde(serialize_with = "serial::complex64_line")]
     pub lower_line: Vec<Option<Complex64>>,
+    /// The three lines at the working precision (None in double precision, where the lines above
+    /// are the values).
+    pub precise: Option<PreciseLines>,
     pub residual: Option<Residual>,
     pub poles: Vec<Pole>,
     /// Real parts of the branch points in the period strip Im z ∈ (−π, π].
@@ -175,11 +187,29 @@ pub struct Profile {
     pub normalization: Normalization,
 }
 
+/// ψ on the three lines at the working precision, normalized and phase-fixed as the lines of the
+/// [`Profile`], with the digits each supports.
+#[derive(Debug, Clone, serde::Serialize)]
+pub struct PreciseLines {
+    /// ψ on R at the grid points rounded to the working precision.
+    #[serde(serialize_with = "serial::complex_line")]
+    pub real_line: Vec<Option<rug::Complex>>,
+    /// ψ on Im r = +2π (empty without the strip; None on a pole).
+    #[serde(serialize_with = "serial::complex_line")]
+    pub upper_line: Vec<Option<rug::Complex>>,
+    /// ψ on Im r = −2π (empty without the strip; None on a pole).
+    #[serde(serialize_with = "serial::complex_line")]
+    pub lower_line: Vec<Option<rug::Complex>>,
+    /// Decimal digits each line (R, +2π, −2π) supports relative to its largest |ψ|: the working
+    /// digits less the cancellation in χ − χ∘ι̃ measured on that line.
+    pub digits: [f64; 3],
+}
+
 /// The modulus and what is known of it before sampling.
 struct Resolved {
     modulus: Float,
     level: Option<usize>,
-    nu: f64,
+    nu: Float,
     distance: f64,
     /// Confirmed digits of the modulus (see [`Profile::modulus_digits`]).
     digits: u32,
@@ -197,7 +227,7 @@ struct Resolved {
 /// use regwave::{build_profile, Grid, ProfileOptions, Target};
 /// let dp3 = regwave::family("dP3").unwrap();
 /// let options = ProfileOptions {
-///     grid: Grid::parse("-8:8:81").unwrap().values(),
+///     grid: Grid::parse("-8:8:81").unwrap(),
 ///     strip: false,
 ///     digits: 16,
 ///     allow_non_attractor: false,
@@ -264,7 +294,7 @@ fn resolve(
     let solved = |at: &attractor::Attractor| Resolved {
         modulus: at.modulus.clone(),
         level: Some(at.level),
-        nu: at.nu as f64,
+        nu: Float::with_val(at.precision_bits, at.nu),
         distance: at.residual,
         digits: at.digits,
     };
@@ -276,8 +306,8 @@ fn resolve(
         Target::Modulus(text) => {
             let a = numbers::parse_modulus(text, bits, laurent)?;
             let mut fam = attractor::HigherNormalFunction::new(laurent)?;
-            let (nu, _, _, _) = fam.nu(&a, bits)?;
-            let nu = nu.to_f64();
+            let (nu_exact, _, _, _) = fam.nu(&a, bits)?;
+            let nu = nu_exact.to_f64();
             let nearest = nu.round();
             let distance = (nu - nearest).abs();
             if distance > ATTRACTOR_TOLERANCE && !options.allow_non_attractor {
@@ -293,7 +323,7 @@ fn resolve(
             Ok(Resolved {
                 modulus: a,
                 level,
-                nu,
+                nu: nu_exact,
                 distance,
                 digits: text.chars().filter(|c| c.is_ascii_digit()).count() as u32,
             })
@@ -309,25 +339,28 @@ fn lambda_estimate(laurent: &Laurent, a: f64) -> Result<f64, ProfileError> {
     Ok((alpha.regulator / alpha.omega).norm())
 }
 
-/// The modulus of the target at `bits` (an attractor modulus is re-solved there; a given one is
-/// re-read from its text).
+/// The modulus of the target at `bits` and its confirmed digits (an attractor modulus is
+/// re-solved there; a given one is re-read from its text).
 fn modulus_at(
     laurent: &Laurent,
     target: &Target,
     resolved: &Resolved,
     bits: u32,
-) -> Result<Float, ProfileError> {
+) -> Result<(Float, u32), ProfileError> {
     if bits <= resolved.modulus.prec() {
-        return Ok(Float::with_val(bits, &resolved.modulus));
+        return Ok((Float::with_val(bits, &resolved.modulus), resolved.digits));
     }
     match (target, resolved.level) {
-        (Target::Modulus(text), _) => Ok(numbers::parse_modulus(text, bits, laurent)?),
+        (Target::Modulus(text), _) => Ok((
+            numbers::parse_modulus(text, bits, laurent)?,
+            resolved.digits,
+        )),
         (_, Some(n)) => {
             let d = digits_for_bits(bits).min(MAX_DIGITS);
             let at = attractor::solve_levels(laurent, n..=n, d)?;
-            Ok(Float::with_val(bits, &at[0].modulus))
+            Ok((Float::with_val(bits, &at[0].modulus), at[0].digits))
         }
-        (_, None) => Ok(Float::with_val(bits, &resolved.modulus)),
+        (_, None) => Ok((Float::with_val(bits, &resolved.modulus), resolved.digits)),
     }
 }
 
@@ -342,14 +375,15 @@ fn sample_at(
 ) -> Result<Profile, ProfileError> {
     if double {
         let a = Complex64::new(resolved.modulus.to_f64(), 0.0);
-        return sample(laurent, a, resolved.modulus.clone(), resolved, options);
+        let known = (resolved.modulus.clone(), resolved.digits);
+        return sample(laurent, a, known, resolved, options);
     }
     let bits = working_bits(digits);
-    let a = modulus_at(laurent, target, resolved, bits)?;
+    let (a, a_digits) = modulus_at(laurent, target, resolved, bits)?;
     sample(
         laurent,
         rug::Complex::with_val(bits, (&a, 0)),
-        a,
+        (a, a_digits),
         resolved,
         options,
     )
@@ -360,17 +394,18 @@ struct Lines<T> {
     real_line: Vec<Option<T>>,
     upper_line: Vec<Option<T>>,
     lower_line: Vec<Option<T>>,
-    loss: f64,
+    /// Cancellation losses on the three lines (R, +2π, −2π).
+    losses: [f64; 3],
     strip_loss: Option<f64>,
 }
 
 fn lines<T: CNum + Send + Sync>(
     eig: &Eigenfunction<T>,
-    grid: &[f64],
+    points: &[T],
     strip: bool,
 ) -> Result<Lines<T>, EigenError> {
     let two_pi = 2.0 * std::f64::consts::PI;
-    let line_at = |im: f64| eig.psi_on_line_with_loss(grid, im);
+    let line_at = |im: f64| eig.psi_on_line_at(points, im);
     // The three lines are independent: computed in parallel.
     let (main, (up, down)) = rayon::join(
         || line_at(0.0),
@@ -389,7 +424,7 @@ fn lines<T: CNum + Send + Sync>(
         real_line,
         upper_line,
         lower_line,
-        loss,
+        losses: [loss, up_loss, down_loss],
         strip_loss: strip.then_some(loss.max(up_loss).max(down_loss)),
     })
 }
@@ -397,19 +432,32 @@ fn lines<T: CNum + Send + Sync>(
 fn sample<T: CNum + Send + Sync>(
     laurent: &Laurent,
     a: T,
-    modulus: Float,
+    (modulus, modulus_digits): (Float, u32),
     resolved: &Resolved,
     options: &ProfileOptions,
 ) -> Result<Profile, ProfileError> {
     let prec = a.prec();
     let eig = Eigenfunction::new(laurent, a.clone(), None, BASE_RE)?;
     let normalization = normalization(laurent, &eig, &a)?;
-    let raw = lines(&eig, &options.grid, options.strip)?;
+    let grid = options.grid.values();
+    // The points at the working precision: the exact grid rounded there (to f64 in double
+    // precision, where that is the same).
+    let points: Vec<T> = if prec > DOUBLE_BITS {
+        options
+            .grid
+            .points_at(prec)
+            .iter()
+            .map(|x| T::from_real(x, prec))
+            .collect()
+    } else {
+        grid.iter().map(|&r| T::from_f64s(r, 0.0, prec)).collect()
+    };
+    let raw = lines(&eig, &points, options.strip)?;
     let residual = if options.strip {
         Some(eigen_equation_residual(
             &QuantumCurve::new(laurent)?,
             &eig,
-            &options.grid,
+            &points,
             &raw.real_line,
             &raw.upper_line,
             &raw.lower_line,
@@ -429,32 +477,55 @@ fn sample<T: CNum + Send + Sync>(
     let fixed = rule.and_then(|k| {
         phase::fix_phase(
             k,
-            &options.grid,
+            &grid,
             &mut real_line,
             &mut [upper_line.as_mut_slice(), lower_line.as_mut_slice()],
         )
     });
     let reality_defect = fixed.map(|f| f.0);
     let factor = normalization.factor * fixed.map(|f| f.1).unwrap_or(Complex64::new(1.0, 0.0));
+    let precise = if prec > DOUBLE_BITS {
+        // The unit norm (to double precision) and the phase rule at the working precision: the
+        // written ψ is an eigenfunction to the working precision, and real (with a reality rule)
+        // to the working precision too.
+        let peak_r = normalization.peak;
+        let f = precise_factor(&eig, &points, &raw.real_line, rule, factor.norm(), peak_r)?;
+        let scale = |v: &[Option<T>]| -> Vec<Option<rug::Complex>> {
+            v.iter()
+                .map(|v| v.as_ref().map(|v| v.to_complex() * &f))
+                .collect()
+        };
+        let working = digits_of(prec);
+        Some(PreciseLines {
+            real_line: scale(&raw.real_line),
+            upper_line: scale(&raw.upper_line),
+            lower_line: scale(&raw.lower_line),
+            digits: raw.losses.map(|loss| working - loss),
+        })
+    } else {
+        None
+    };
     let branch_points = eig.branch_points();
     Ok(Profile {
         level: resolved.level,
         modulus,
-        modulus_digits: resolved.digits,
-        nu: resolved.nu,
+        modulus_digits,
+        nu: resolved.nu.clone(),
         nu_distance: resolved.distance,
-        lambda: eig.lambda.to_c64(),
+        lambda: eig.lambda.to_complex(),
         spine: eig.spine,
         base: eig.base.z.to_c64(),
         precision_bits: prec,
         working_digits: digits_of(prec),
         lambda_digits_lost: 0.0,
-        cancellation_digits: raw.loss,
+        cancellation_digits: raw.losses[0],
         strip_cancellation_digits: raw.strip_loss,
-        grid: options.grid.clone(),
+        grid_spec: options.grid.clone(),
+        grid,
         real_line,
         upper_line,
         lower_line,
+        precise,
         residual,
         poles: poles::strip_poles(eig.curve()),
         branch_points,
@@ -463,6 +534,44 @@ fn sample<T: CNum + Send + Sync>(
         factor,
         normalization,
     })
+}
+
+/// The factor of the precise lines: `magnitude` (the unit norm, to double precision) times the
+/// phase of the documented rule computed at the working precision — with a reality rule k,
+/// e^{−ikr²/(8π)}ψ real and positive at the grid point where it is largest; without one, ψ real
+/// and positive at the peak of the normalization grid `peak_r` (the double-precision lines follow
+/// the same rule to double precision).
+fn precise_factor<T: CNum>(
+    eig: &Eigenfunction<T>,
+    points: &[T],
+    real_line: &[Option<T>],
+    rule: Option<i64>,
+    magnitude: f64,
+    peak_r: f64,
+) -> Result<rug::Complex, EigenError> {
+    let prec = eig.lambda.prec();
+    let w = match rule {
+        Some(k) => {
+            let eight_pi = eig.lambda.pi_like() * eig.lambda.int_like(8);
+            points
+                .iter()
+                .zip(real_line)
+                .filter_map(|(r, v)| {
+                    let v = v.as_ref()?;
+                    let turn =
+                        -(eig.lambda.i_like() * eig.lambda.int_like(k) * r.clone() * r.clone()
+                            / eight_pi.clone());
+                    Some(v.clone() * turn.exp())
+                })
+                .max_by(|x, y| x.abs_f64().total_cmp(&y.abs_f64()))
+        }
+        None => Some(eig.psi(&T::from_f64s(peak_r, 0.0, prec))?),
+    };
+    let w = w
+        .map(|w| w.to_complex())
+        .unwrap_or(rug::Complex::with_val(prec, 1));
+    let unit = rug::Complex::with_val(prec, w.conj_ref()) / rug::Float::with_val(prec, w.abs_ref());
+    Ok(unit * rug::Float::with_val(prec, magnitude))
 }
 
 /// The normalization (a double-precision factor) at the lowest precision that gives it to double

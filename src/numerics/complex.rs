@@ -57,6 +57,11 @@ pub trait CNum:
     /// Re z and Im z as decimal strings with every digit of the working precision (enough to
     /// read back the same binary value).
     fn decimal_parts(&self) -> (String, String);
+    /// A real MPFR value as a value of this type at `prec` bits (rounded to f64 for
+    /// `Complex64`).
+    fn from_real(x: &Float, prec: u32) -> Self;
+    /// z as an MPC value at its own precision (exact).
+    fn to_complex(&self) -> Complex;
 }
 
 impl CNum for Complex64 {
@@ -102,6 +107,12 @@ impl CNum for Complex64 {
     fn decimal_parts(&self) -> (String, String) {
         // Rust's shortest round-trip rendering of a double.
         (format!("{:?}", self.re), format!("{:?}", self.im))
+    }
+    fn from_real(x: &Float, _prec: u32) -> Self {
+        Complex64::new(x.to_f64(), 0.0)
+    }
+    fn to_complex(&self) -> Complex {
+        Complex::with_val(53, (self.re, self.im))
     }
 }
 
@@ -176,6 +187,12 @@ impl CNum for Complex {
             crate::numerics::serial::float_text(self.real()),
             crate::numerics::serial::float_text(self.imag()),
         )
+    }
+    fn from_real(x: &Float, prec: u32) -> Self {
+        Complex::with_val(prec, (x, 0))
+    }
+    fn to_complex(&self) -> Complex {
+        self.clone()
     }
 }
 

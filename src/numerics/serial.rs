@@ -65,6 +65,18 @@ pub fn complex64_line<S: Serializer>(line: &[Option<Complex64>], s: S) -> Result
     s.collect_seq(line.iter().map(|v| v.map(|v| C { re: v.re, im: v.im })))
 }
 
+/// serde `serialize_with` for a line of [`CNum`] samples: `[{"re", "im"} | null, …]` with every
+/// digit of their precision.
+pub fn complex_line<T: CNum, S: Serializer>(line: &[Option<T>], s: S) -> Result<S::Ok, S::Error> {
+    struct Item<'a, T>(&'a T);
+    impl<T: CNum> serde::Serialize for Item<'_, T> {
+        fn serialize<S: Serializer>(&self, s: S) -> Result<S::Ok, S::Error> {
+            complex(self.0, s)
+        }
+    }
+    s.collect_seq(line.iter().map(|v| v.as_ref().map(Item)))
+}
+
 /// serde `serialize_with` for a list of [`Complex64`]: `[{"re", "im"}, …]`.
 pub fn complex64_list<S: Serializer>(xs: &[Complex64], s: S) -> Result<S::Ok, S::Error> {
     let line: Vec<Option<Complex64>> = xs.iter().copied().map(Some).collect();

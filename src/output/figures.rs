@@ -121,7 +121,11 @@ pub fn nu(family: &str, audit: &Audit) -> Result<Figure, PlotError> {
         log_a: audit.scan.log_a.clone(),
         nu: audit.scan.nu.clone(),
         crossings: audit.scan.crossings.clone(),
-        eigenvalues_log_a: audit.eigenvalues_in_window.iter().map(|e| e.ln()).collect(),
+        eigenvalues_log_a: audit
+            .eigenvalues_in_window
+            .iter()
+            .map(|e| e.value.to_f64().ln())
+            .collect(),
     };
     Ok(Figure {
         name: format!("nu-{}", file_id(family)),

@@ -4,6 +4,7 @@
 use crate::checks::audit::Audit;
 use crate::checks::level::LevelAudit;
 use crate::eigenfunction::profile::Profile;
+use crate::numerics::complex::CNum;
 use crate::output::decimal::{decimal, sci, supported_digits};
 use crate::output::tables::tail_text;
 use crate::precision::digits_for_bits;
@@ -221,7 +222,7 @@ pub fn tour_markdown(
         decimal(&p.modulus, high.2),
         p.precision_bits,
         format!("{:.1} digits", p.lambda_digits_lost),
-        p.lambda.norm(),
+        CNum::abs_f64(&p.lambda),
         p.grid.len(),
         high_elapsed_s,
         high.0,

@@ -21,10 +21,24 @@ use crate::lattice::catalogue::Family;
 use crate::lattice::polygon::{LatticePoint, Mat2};
 use crate::operator::spectrum::Spectrum;
 use crate::output::decimal::{decimal, round1, sci, supported_digits};
-use crate::precision::digits_for_bits;
+use crate::precision::{digits_for_bits, path_digits};
 use crate::TOOL_VERSION;
 use rug::Float;
 use serde::Serialize;
+
+/// At most this many digits of an independent eigenvalue are reported (the spectrum's own error
+/// estimate usually allows fewer).
+pub const SPECTRUM_REPORT_DIGITS: u32 = 30;
+
+/// The digits of ν a profile reports: those of its modulus for an attractor modulus (ν is then the
+/// integer, to the digits the modulus was confirmed to), else those of a path computation at the
+/// precision ν was computed at.
+fn nu_digits(p: &Profile) -> u32 {
+    match p.level {
+        Some(_) if p.nu.is_integer() => p.modulus_digits.max(1),
+        _ => path_digits(p.nu.prec()),
+    }
+}
 
 /// What every document says about itself: the body's keys, then the common keys.
 #[derive(Debug, Clone, Serialize)]
@@ -429,7 +443,7 @@ pub struct LevelRecord {
     pub cauchy_defect: f64,
     pub phase_rule_k: Option<i64>,
     pub phase_rule_max_imaginary_part: Option<f64>,
-    pub lambda: ComplexNumber,
+    pub lambda: ComplexText,
     pub precision_bits: u32,
     pub cancellation_digits_lost_on_r: f64,
 }
@@ -437,7 +451,8 @@ pub struct LevelRecord {
 impl From<&LevelAudit> for LevelRecord {
     fn from(l: &LevelAudit) -> Self {
         let p = &l.profile;
-        let spectrum_digits = supported_digits(&l.spectrum_value, l.spectrum_error, 30);
+        let spectrum_digits =
+            supported_digits(&l.spectrum_value, l.spectrum_error, SPECTRUM_REPORT_DIGITS);
         LevelRecord {
             level: l.level,
             nu: l.nu,
@@ -465,7 +480,7 @@ impl From<&LevelAudit> for LevelRecord {
             cauchy_defect: l.cauchy_defect,
             phase_rule_k: p.rule,
             phase_rule_max_imaginary_part: p.reality_defect,
-            lambda: p.lambda.into(),
+            lambda: ComplexText::new(&p.lambda, path_digits(p.precision_bits)),
             precision_bits: p.precision_bits,
             cancellation_digits_lost_on_r: p.cancellation_digits,
         }
@@ -516,7 +531,7 @@ pub struct AuditRecord {
     pub negative_control_defect: f64,
     pub negative_control: NegativeControl,
     pub window: [f64; 2],
-    pub eigenvalues_in_window: Vec<f64>,
+    pub eigenvalues_in_window: Vec<String>,
     pub nu_scan: ScanRecord,
     pub period_agreement_digits: Option<f64>,
     pub diagnostic_precision_bits: u32,
@@ -537,7 +552,14 @@ impl AuditRecord {
             negative_control_defect: a.negative_control.defect(),
             negative_control: a.negative_control.clone(),
             window: a.window,
-            eigenvalues_in_window: a.eigenvalues_in_window.clone(),
+            eigenvalues_in_window: a
+                .eigenvalues_in_window
+                .iter()
+                .map(|w| {
+                    let d = supported_digits(&w.value, w.error_estimate, SPECTRUM_REPORT_DIGITS);
+                    decimal(&w.value, d)
+                })
+                .collect(),
             nu_scan: ScanRecord {
                 points: a.scan.log_a.len(),
                 increasing: a.scan.increasing,
@@ -578,7 +600,7 @@ pub struct CheckRecord {
     pub levels: [LevelRecord; 1],
     pub negative_control_defect: f64,
     pub negative_control: NegativeControl,
-    pub nu_distance_to_integer: f64,
+    pub nu_distance_to_integer: String,
     pub period_agreement_digits: Option<f64>,
     pub spectrum: SpectrumUsed,
 }
@@ -591,7 +613,7 @@ impl CheckRecord {
             levels: [LevelRecord::from(&c.level)],
             negative_control_defect: c.negative_control.defect(),
             negative_control: c.negative_control.clone(),
-            nu_distance_to_integer: c.level.profile.nu_distance,
+            nu_distance_to_integer: sci(c.level.profile.nu_distance),
             period_agreement_digits: c.period_agreement_digits,
             spectrum: SpectrumUsed {
                 bases: c.spectrum_bases.clone(),
@@ -643,9 +665,9 @@ pub struct ProfileRecord {
     pub family: String,
     pub level: Option<usize>,
     pub modulus: String,
-    pub nu: f64,
-    pub nu_distance_to_integer: f64,
-    pub lambda: ComplexNumber,
+    pub nu: String,
+    pub nu_distance_to_integer: String,
+    pub lambda: ComplexText,
     pub base_point: ComplexNumber,
     pub spine_im: f64,
     pub lambda_digits_lost: f64,
@@ -679,9 +701,9 @@ impl ProfileRecord {
             family: family.to_string(),
             level: p.level,
             modulus: decimal(&p.modulus, digits_for_bits(p.modulus.prec()).max(17)),
-            nu: p.nu,
-            nu_distance_to_integer: p.nu_distance,
-            lambda: p.lambda.into(),
+            nu: decimal(&p.nu, nu_digits(p)),
+            nu_distance_to_integer: sci(p.nu_distance),
+            lambda: ComplexText::new(&p.lambda, path_digits(p.precision_bits)),
             base_point: p.base.into(),
             spine_im: p.spine,
             lambda_digits_lost: p.lambda_digits_lost,

@@ -66,14 +66,14 @@ pub(crate) fn run_audit(
     sel: &Selection,
     levels: RangeInclusive<usize>,
     digits: u32,
-    grid: &[f64],
+    grid: &Grid,
     progress: Observer<'_>,
 ) -> Result<(Audit, f64), CommandError> {
     let start = Instant::now();
     let options = AuditOptions {
         levels,
         digits,
-        grid: grid.to_vec(),
+        grid: grid.clone(),
         perturbation: PERTURBATION,
         spectrum_basis: SPECTRUM_BASES.0,
         spectrum_max_basis: SPECTRUM_BASES.1,
@@ -120,13 +120,7 @@ pub fn audit(request: &AuditRequest, progress: Observer<'_>) -> Result<Outcome, 
         .unwrap_or_else(|| PathBuf::from(format!("out/audit-{id}")));
     refuse_existing(&out, &["audit.md", "audit.json"], request.replace)?;
     ensure_writable(&out)?;
-    let (audit, elapsed) = run_audit(
-        &sel,
-        levels.clone(),
-        request.digits,
-        &grid.values(),
-        progress,
-    )?;
+    let (audit, elapsed) = run_audit(&sel, levels.clone(), request.digits, &grid, progress)?;
     let inputs = Inputs {
         family: request.family.inputs(&sel),
         options: Options {

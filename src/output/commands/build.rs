@@ -74,7 +74,7 @@ pub fn build(request: &BuildRequest, progress: Observer<'_>) -> Result<Outcome, 
     let files = build_files(request.strip);
     refuse_existing(&request.out, &files, request.replace)?;
     let options = ProfileOptions {
-        grid: grid.values(),
+        grid,
         strip: request.strip,
         digits: request.digits,
         allow_non_attractor: request.target.allow_non_attractor,
@@ -98,20 +98,10 @@ pub fn build(request: &BuildRequest, progress: Observer<'_>) -> Result<Outcome, 
         elapsed,
     );
     let json = pretty(&doc);
-    let mut outputs: Vec<OutputFile> = vec![(
-        "psi.csv".into(),
-        csv::samples(&p.grid, &p.real_line).into_bytes(),
-    )];
-    if request.strip {
-        outputs.push((
-            "psi_up.csv".into(),
-            csv::samples(&p.grid, &p.upper_line).into_bytes(),
-        ));
-        outputs.push((
-            "psi_down.csv".into(),
-            csv::samples(&p.grid, &p.lower_line).into_bytes(),
-        ));
-    }
+    let mut outputs: Vec<OutputFile> = csv::profile_files(&p, request.strip)
+        .into_iter()
+        .map(|(name, text)| (name.to_string(), text.into_bytes()))
+        .collect();
     outputs.push(("psi.json".into(), json.clone().into_bytes()));
     write_all_atomic(&request.out, &outputs)?;
     Ok(Outcome {

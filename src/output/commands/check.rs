@@ -50,7 +50,7 @@ pub fn check(request: &CheckRequest) -> Result<Outcome, CommandError> {
     let grid = Grid::parse(&request.grid)?;
     let target = request.target.target()?;
     let options = CheckOptions {
-        grid: grid.values(),
+        grid,
         digits: request.digits,
         allow_non_attractor: request.target.allow_non_attractor,
         perturbation: PERTURBATION,

@@ -89,7 +89,7 @@ struct TourRecord {
 pub fn tour(request: &TourRequest, progress: Observer<'_>) -> Result<Outcome, CommandError> {
     let start = Instant::now();
     ensure_writable(&request.out)?;
-    let grid = Grid::parse(TOUR_GRID)?.values();
+    let grid = Grid::parse(TOUR_GRID)?;
     let selections: Vec<Selection> = TOUR_FAMILIES
         .iter()
         .map(|id| FamilyRequest::catalogue(id).resolve())
@@ -110,7 +110,7 @@ pub fn tour(request: &TourRequest, progress: Observer<'_>) -> Result<Outcome, Co
         &high_sel.laurent,
         &Target::Level(TOUR_HIGH.1),
         &ProfileOptions {
-            grid: Grid::parse(TOUR_HIGH.3)?.values(),
+            grid: Grid::parse(TOUR_HIGH.3)?,
             strip: true,
             digits: TOUR_HIGH.2,
             allow_non_attractor: false,
@@ -201,12 +201,8 @@ pub fn tour(request: &TourRequest, progress: Observer<'_>) -> Result<Outcome, Co
     ];
     files.extend(figures::figure_files(&figs, request.png)?);
     let dir = format!("psi-{}-{}-{}digits", TOUR_HIGH.0, TOUR_HIGH.1, TOUR_HIGH.2);
-    let samples = [
-        ("psi.csv", csv::samples(&high.grid, &high.real_line)),
-        ("psi_up.csv", csv::samples(&high.grid, &high.upper_line)),
-        ("psi_down.csv", csv::samples(&high.grid, &high.lower_line)),
-        ("psi.json", high_json),
-    ];
+    let mut samples = csv::profile_files(&high, true);
+    samples.push(("psi.json", high_json));
     files.extend(
         samples
             .into_iter()
