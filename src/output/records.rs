@@ -25,6 +25,7 @@ use crate::precision::{digits_for_bits, path_digits};
 use crate::TOOL_VERSION;
 use rug::Float;
 use serde::Serialize;
+use std::collections::BTreeMap;
 
 /// At most this many digits of an independent eigenvalue are reported (the spectrum's own error
 /// estimate usually allows fewer).
@@ -536,6 +537,17 @@ pub struct AuditRecord {
     pub period_agreement_digits: Option<f64>,
     pub diagnostic_precision_bits: u32,
     pub spectrum: SpectrumUsed,
+    /// The CSV tables written beside the document, each column defined in words.
+    pub tables: BTreeMap<&'static str, BTreeMap<&'static str, &'static str>>,
+}
+
+/// The definitions of the columns of the tables written with an audit.
+pub fn table_definitions() -> BTreeMap<&'static str, BTreeMap<&'static str, &'static str>> {
+    let mut out: BTreeMap<&'static str, BTreeMap<&'static str, &'static str>> = BTreeMap::new();
+    for &(file, column, definition) in crate::output::data::COLUMNS {
+        out.entry(file).or_default().insert(column, definition);
+    }
+    out
 }
 
 impl AuditRecord {
@@ -584,6 +596,7 @@ impl AuditRecord {
                 bases: a.spectrum_bases.clone(),
                 precision_bits: a.spectrum_bits,
             },
+            tables: table_definitions(),
         }
     }
 

@@ -6,6 +6,7 @@ use crate::checks::audit::{self, Audit, AuditOptions};
 use crate::input::grid::Grid;
 use crate::input::numbers::parse_levels;
 use crate::input::selection::Selection;
+use crate::output::data;
 use crate::output::files::{ensure_writable, refuse_existing, write_all_atomic, OutputFile};
 use crate::output::markdown::{audit_markdown, COLUMNS_NOTE};
 use crate::output::records::{pretty, AuditRecord, Document, Inputs};
@@ -82,6 +83,21 @@ pub(crate) fn run_audit(
     Ok((audit, start.elapsed().as_secs_f64()))
 }
 
+/// The tidy tables behind the figures and the report (see [`crate::output::data`]).
+pub(crate) fn data_files(audit: &Audit) -> Vec<OutputFile> {
+    vec![
+        (
+            "levels.csv".into(),
+            data::levels(&audit.levels).into_bytes(),
+        ),
+        (
+            "profiles.csv".into(),
+            data::profiles(&audit.levels).into_bytes(),
+        ),
+        ("nu_scan.csv".into(), data::nu_scan(audit).into_bytes()),
+    ]
+}
+
 /// The finding of an audit with unmatched levels.
 pub(crate) fn unmatched(family: &str, audit: &Audit) -> Option<CommandError> {
     if audit.unmatched.is_empty() {
@@ -152,6 +168,7 @@ pub fn audit(request: &AuditRequest, progress: Observer<'_>) -> Result<Outcome, 
         )));
         files.extend(figures::figure_files(&figs, request.png)?);
     }
+    files.extend(data_files(&audit));
     files.insert(0, ("audit.json".into(), json.clone().into_bytes()));
     files.insert(0, ("audit.md".into(), md.clone().into_bytes()));
     write_all_atomic(&out, &files)?;

@@ -2,7 +2,7 @@
 //! where it suffices) and one 40-digit eigenfunction with its residual, written as a report with
 //! figures, the catalogue and the 40-digit samples.
 
-use super::audit::{run_audit, Options as AuditOptions};
+use super::audit::{data_files, run_audit, Options as AuditOptions};
 use super::build::build_files;
 use super::{CommandError, FamilyRequest, Outcome};
 use crate::checks::audit::Audit;
@@ -200,6 +200,12 @@ pub fn tour(request: &TourRequest, progress: Observer<'_>) -> Result<Outcome, Co
         ("families.txt".into(), families_table(all).into_bytes()),
     ];
     files.extend(figures::figure_files(&figs, request.png)?);
+    for (id, (audit, _)) in TOUR_FAMILIES.iter().zip(&audits) {
+        files.extend(data_files(audit).into_iter().map(|(name, bytes)| {
+            let stem = name.trim_end_matches(".csv");
+            (format!("{stem}-{}.csv", figures::file_id(id)), bytes)
+        }));
+    }
     let dir = format!("psi-{}-{}-{}digits", TOUR_HIGH.0, TOUR_HIGH.1, TOUR_HIGH.2);
     let mut samples = csv::profile_files(&high, true);
     samples.push(("psi.json", high_json));
