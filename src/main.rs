@@ -29,11 +29,17 @@ struct Cli {
 #[derive(Subcommand)]
 enum Command {
     /// The catalogue of reflexive polygons: 15 strip families and the one excluded.
+    #[command(
+        after_help = "Examples:\n  regwave families\n  regwave families --json > families.json"
+    )]
     Families {
         #[command(flatten)]
         json: Json,
     },
     /// Independent eigenvalues from a harmonic-oscillator basis, with convergence estimates.
+    #[command(
+        after_help = "Examples:\n  regwave spectrum --family F0 --levels 0..4 --digits 20\n  regwave spectrum --vertices \"(1,0),(0,1),(-1,-1)\" --levels 0 --json"
+    )]
     Spectrum {
         #[command(flatten)]
         request: run::SpectrumRequest,
@@ -41,6 +47,9 @@ enum Command {
         json: Json,
     },
     /// Periods Omega, regulator periods R over the cycles alpha and beta, tau and nu at one modulus.
+    #[command(
+        after_help = "Examples:\n  regwave periods --family P2 --modulus 12.970039821793337437623954 --digits 30\n  regwave periods --family dP3 --modulus 50 --json"
+    )]
     Periods {
         #[command(flatten)]
         request: run::PeriodsRequest,
@@ -48,6 +57,9 @@ enum Command {
         json: Json,
     },
     /// Attractor moduli: the moduli where the higher normal function nu is an integer.
+    #[command(
+        after_help = "Examples:\n  regwave attractors --family F0 --levels 0..9 --digits 40\n  regwave attractors --family F0* --levels 3 --json"
+    )]
     Attractors {
         #[command(flatten)]
         request: run::AttractorsRequest,
@@ -55,8 +67,19 @@ enum Command {
         json: Json,
     },
     /// Build the eigenfunction psi at an attractor modulus and write psi.csv (+ strip lines) and psi.json.
-    Build(run::BuildRequest),
-    /// Audit a family: attractor moduli matched to the independent spectrum both ways, every level's eigenfunction checked; Markdown, JSON and figures.
+    #[command(
+        after_help = "Examples:\n  regwave build --family dP3 --level 2 --grid=-12:12:481 --strip --out out/dp3-2\n  regwave build --family F0 --level 2 --digits 40 --strip --out out/f0-40 --json"
+    )]
+    Build {
+        #[command(flatten)]
+        request: run::BuildRequest,
+        #[command(flatten)]
+        json: Json,
+    },
+    /// Audit a family: attractor moduli matched to the independent spectrum both ways, every level's eigenfunction checked; Markdown, JSON, tables and figures.
+    #[command(
+        after_help = "Examples:\n  regwave audit --family P2 --levels 0..4\n  regwave audit --family F0 --levels 0..2 --digits 30 --out out/f0-30 --png"
+    )]
     Audit {
         #[command(flatten)]
         request: run::AuditRequest,
@@ -64,6 +87,9 @@ enum Command {
         json: Json,
     },
     /// The residual report of one eigenfunction (all checks), without writing samples.
+    #[command(
+        after_help = "Examples:\n  regwave check --family F0 --level 2\n  regwave check --family F0 --modulus 17.9 --allow-non-attractor --json"
+    )]
     Check {
         #[command(flatten)]
         request: run::CheckRequest,
@@ -71,6 +97,7 @@ enum Command {
         json: Json,
     },
     /// The built-in demonstration, written into out/tour/.
+    #[command(after_help = "Examples:\n  regwave tour\n  regwave tour --out /tmp/tour --png")]
     Tour(run::TourRequest),
 }
 
@@ -98,10 +125,13 @@ fn execute(command: Command) -> Result<(), CommandError> {
         Command::Periods { request, json } => show(json, &run::periods(&request)?),
         Command::Attractors { request, json } => show(json, &run::attractors(&request)?),
         Command::Check { request, json } => show(json, &run::check(&request)?),
-        Command::Build(request) => {
-            let bar = progress_bar(request.digits <= 16, "build");
+        Command::Build { request, json } => {
+            let bar = progress_bar(json.json || request.digits <= 16, "build");
             let outcome = run::build(&request, &|p: &Progress| tick(&bar, p))?;
             bar.finish_and_clear();
+            if json.json {
+                show(json, &outcome)?;
+            }
             wrote("build", &outcome);
             Ok(())
         }

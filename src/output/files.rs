@@ -17,6 +17,12 @@ pub enum FileError {
     Exists { path: String },
 }
 
+/// A family id as it appears in file and folder names: no shell glob characters (`F0*` →
+/// `F0-dual`).
+pub fn file_stem(family: &str) -> String {
+    family.replace('*', "-dual")
+}
+
 /// A file to write: its name inside the output directory (may hold subdirectories) and contents.
 pub type OutputFile = (String, Vec<u8>);
 

@@ -190,11 +190,10 @@ impl From<&Family> for FamilyRecord {
     }
 }
 
-/// `regwave families --json`.
+/// `regwave families --json` (body).
 #[derive(Debug, Clone, Serialize)]
 pub struct FamiliesRecord {
     pub families: Vec<FamilyRecord>,
-    pub tool_version: &'static str,
 }
 
 impl FamiliesRecord {
@@ -202,9 +201,21 @@ impl FamiliesRecord {
     pub fn new(families: &[Family]) -> Self {
         FamiliesRecord {
             families: families.iter().map(FamilyRecord::from).collect(),
-            tool_version: TOOL_VERSION,
         }
     }
+}
+
+/// The inputs of a command that takes none.
+#[derive(Debug, Clone, Copy, Serialize)]
+pub struct NoInputs {}
+
+/// The catalogue as a document (the catalogue is exact data: no precision).
+pub fn families_document(
+    families: &[Family],
+    elapsed_s: f64,
+) -> Document<FamiliesRecord, NoInputs> {
+    Document::new(FamiliesRecord::new(families), NoInputs {}, None, elapsed_s)
+        .noting("exact data: the reflexive polygons, their tempered Laurent polynomials and spectral thresholds")
 }
 
 // ---------------------------------------------------------------------------------------------

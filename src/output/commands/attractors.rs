@@ -16,10 +16,10 @@ pub struct AttractorsRequest {
     #[cfg_attr(feature = "cli", command(flatten))]
     pub family: FamilyRequest,
     /// Levels: an inclusive range A..B or one level n.
-    #[cfg_attr(feature = "cli", arg(long, default_value = "0..5"))]
+    #[cfg_attr(feature = "cli", arg(long, default_value = super::defaults::LEVELS))]
     pub levels: String,
-    /// Decimal digits wanted.
-    #[cfg_attr(feature = "cli", arg(long, default_value_t = 16))]
+    /// Decimal digits wanted (8 to 1000).
+    #[cfg_attr(feature = "cli", arg(long, default_value_t = super::defaults::DIGITS))]
     pub digits: u32,
 }
 

@@ -7,7 +7,9 @@ use crate::input::grid::Grid;
 use crate::input::numbers::parse_levels;
 use crate::input::selection::Selection;
 use crate::output::data;
-use crate::output::files::{ensure_writable, refuse_existing, write_all_atomic, OutputFile};
+use crate::output::files::{
+    ensure_writable, file_stem, refuse_existing, write_all_atomic, OutputFile,
+};
 use crate::output::markdown::{audit_markdown, COLUMNS_NOTE};
 use crate::output::records::{pretty, AuditRecord, Document, Inputs};
 use crate::precision::check_digits;
@@ -25,18 +27,18 @@ pub struct AuditRequest {
     #[cfg_attr(feature = "cli", command(flatten))]
     pub family: FamilyRequest,
     /// Levels: an inclusive range A..B or one level n.
-    #[cfg_attr(feature = "cli", arg(long, default_value = "0..4"))]
+    #[cfg_attr(feature = "cli", arg(long, default_value = super::defaults::LEVELS))]
     pub levels: String,
-    /// Decimal digits (16 or less: double precision where it suffices).
-    #[cfg_attr(feature = "cli", arg(long, default_value_t = 16))]
+    /// Decimal digits (8 to 1000; 16 or less: double precision where it suffices).
+    #[cfg_attr(feature = "cli", arg(long, default_value_t = super::defaults::DIGITS))]
     pub digits: u32,
     /// Grid of real parts R0:R1:N for the residual and the profiles.
     #[cfg_attr(
         feature = "cli",
-        arg(long, default_value = "-12:12:241", allow_hyphen_values = true)
+        arg(long, default_value = super::defaults::GRID, allow_hyphen_values = true)
     )]
     pub grid: String,
-    /// Output directory (default out/audit-FAMILY).
+    /// Output directory (default out/audit-FAMILY, with `*` of a dual written `-dual`).
     #[cfg_attr(feature = "cli", arg(long))]
     pub out: Option<PathBuf>,
     /// Replace existing outputs.
@@ -133,7 +135,7 @@ pub fn audit(request: &AuditRequest, progress: Observer<'_>) -> Result<Outcome, 
     let out = request
         .out
         .clone()
-        .unwrap_or_else(|| PathBuf::from(format!("out/audit-{id}")));
+        .unwrap_or_else(|| PathBuf::from(format!("out/audit-{}", file_stem(id))));
     refuse_existing(&out, &["audit.md", "audit.json"], request.replace)?;
     ensure_writable(&out)?;
     let (audit, elapsed) = run_audit(&sel, levels.clone(), request.digits, &grid, progress)?;

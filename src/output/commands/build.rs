@@ -24,15 +24,16 @@ pub struct BuildRequest {
     /// Grid of real parts R0:R1:N.
     #[cfg_attr(
         feature = "cli",
-        arg(long, default_value = "-12:12:481", allow_hyphen_values = true)
+        arg(long, default_value = super::defaults::GRID, allow_hyphen_values = true)
     )]
     pub grid: String,
     /// Also write the lines Im r = +2 pi and -2 pi (psi_up.csv, psi_down.csv) and form the
     /// eigen-equation residual.
     #[cfg_attr(feature = "cli", arg(long))]
     pub strip: bool,
-    /// Decimal digits of the working precision (16 or less: double precision where it suffices).
-    #[cfg_attr(feature = "cli", arg(long, default_value_t = 16))]
+    /// Decimal digits of the working precision (8 to 1000; 16 or less: double precision where
+    /// it suffices).
+    #[cfg_attr(feature = "cli", arg(long, default_value_t = super::defaults::DIGITS))]
     pub digits: u32,
     /// Output directory.
     #[cfg_attr(feature = "cli", arg(long, default_value = "out/build"))]

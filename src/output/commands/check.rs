@@ -20,11 +20,11 @@ pub struct CheckRequest {
     /// Grid of real parts R0:R1:N for the residual.
     #[cfg_attr(
         feature = "cli",
-        arg(long, default_value = "-12:12:241", allow_hyphen_values = true)
+        arg(long, default_value = super::defaults::GRID, allow_hyphen_values = true)
     )]
     pub grid: String,
-    /// Decimal digits (16 or less: double precision where it suffices).
-    #[cfg_attr(feature = "cli", arg(long, default_value_t = 16))]
+    /// Decimal digits (8 to 1000; 16 or less: double precision where it suffices).
+    #[cfg_attr(feature = "cli", arg(long, default_value_t = super::defaults::DIGITS))]
     pub digits: u32,
 }
 

@@ -2,11 +2,15 @@
 
 use super::Outcome;
 use crate::lattice::catalogue;
-use crate::output::records::{pretty, FamiliesRecord};
+use crate::output::records::{families_document, pretty};
 use crate::output::tables::families_table;
+use std::time::Instant;
 
 /// The catalogue: 15 strip families and the one excluded, as JSON and as a table.
 pub fn families() -> Outcome {
+    let start = Instant::now();
     let all = catalogue::all();
-    Outcome::printed(pretty(&FamiliesRecord::new(all)), families_table(all), 0.0)
+    let text = families_table(all);
+    let elapsed = start.elapsed().as_secs_f64();
+    Outcome::printed(pretty(&families_document(all, elapsed)), text, elapsed)
 }

@@ -41,6 +41,17 @@ use crate::precision::PrecisionError;
 use std::path::PathBuf;
 use thiserror::Error;
 
+/// The defaults every command shares.
+pub mod defaults {
+    /// Levels: the first five.
+    pub const LEVELS: &str = "0..4";
+    /// Decimal digits: double precision where it suffices (the precision is raised where the
+    /// computation needs it to deliver them).
+    pub const DIGITS: u32 = crate::precision::DOUBLE_DIGITS;
+    /// Grid of real parts: 241 points on [−12, 12] (step 0.1).
+    pub const GRID: &str = "-12:12:241";
+}
+
 /// Why a command could not run or did not pass.
 #[derive(Debug, Clone, PartialEq, Error)]
 #[non_exhaustive]
@@ -91,6 +102,10 @@ impl From<crate::output::figures::FiguresError> for CommandError {
 /// coefficients to check against the tempered ones).
 #[derive(Debug, Clone, Default)]
 #[cfg_attr(feature = "cli", derive(clap::Args))]
+#[cfg_attr(
+    feature = "cli",
+    command(group(clap::ArgGroup::new("polygon").required(true).args(["family", "vertices"])))
+)]
 pub struct FamilyRequest {
     /// Catalogue id (see `regwave families`).
     #[cfg_attr(feature = "cli", arg(long))]
@@ -142,6 +157,10 @@ impl FamilyRequest {
 /// precision).
 #[derive(Debug, Clone, Default)]
 #[cfg_attr(feature = "cli", derive(clap::Args))]
+#[cfg_attr(
+    feature = "cli",
+    command(group(clap::ArgGroup::new("target").required(true).args(["level", "modulus"])))
+)]
 pub struct TargetRequest {
     /// Level n (the attractor modulus with nu = n + 1).
     #[cfg_attr(feature = "cli", arg(long, conflicts_with = "modulus"))]

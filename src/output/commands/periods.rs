@@ -19,8 +19,8 @@ pub struct PeriodsRequest {
     /// precision).
     #[cfg_attr(feature = "cli", arg(long, allow_hyphen_values = true))]
     pub modulus: String,
-    /// Decimal digits of the working precision.
-    #[cfg_attr(feature = "cli", arg(long, default_value_t = 30))]
+    /// Decimal digits of the working precision (8 to 1000).
+    #[cfg_attr(feature = "cli", arg(long, default_value_t = super::defaults::DIGITS))]
     pub digits: u32,
 }
 

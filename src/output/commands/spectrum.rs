@@ -16,7 +16,7 @@ pub struct SpectrumRequest {
     #[cfg_attr(feature = "cli", command(flatten))]
     pub family: FamilyRequest,
     /// Levels: an inclusive range A..B or one level n.
-    #[cfg_attr(feature = "cli", arg(long, default_value = "0..5"))]
+    #[cfg_attr(feature = "cli", arg(long, default_value = super::defaults::LEVELS))]
     pub levels: String,
     /// Basis size N: solve at N and 3N/2 only (default: adaptive from 200 up to --max-basis).
     #[cfg_attr(feature = "cli", arg(long))]
@@ -25,8 +25,8 @@ pub struct SpectrumRequest {
     /// digits are reached).
     #[cfg_attr(feature = "cli", arg(long, default_value_t = 1013))]
     pub max_basis: usize,
-    /// Decimal digits wanted.
-    #[cfg_attr(feature = "cli", arg(long, default_value_t = 16))]
+    /// Decimal digits wanted (8 to 1000).
+    #[cfg_attr(feature = "cli", arg(long, default_value_t = super::defaults::DIGITS))]
     pub digits: u32,
 }
 

@@ -12,7 +12,7 @@ use crate::input::selection::Selection;
 use crate::lattice::catalogue;
 use crate::output::files::{ensure_writable, write_all_atomic, OutputFile};
 use crate::output::records::{
-    pretty, AuditRecord, Document, FamiliesRecord, Inputs, ProfileRecord, NOTE,
+    families_document, pretty, AuditRecord, Document, Inputs, ProfileRecord, NOTE,
 };
 use crate::output::tables::families_table;
 use crate::output::{csv, figures, markdown};
@@ -195,7 +195,7 @@ pub fn tour(request: &TourRequest, progress: Observer<'_>) -> Result<Outcome, Co
         ("report.json".into(), json.clone().into_bytes()),
         (
             "families.json".into(),
-            pretty(&FamiliesRecord::new(all)).into_bytes(),
+            pretty(&families_document(all, 0.0)).into_bytes(),
         ),
         ("families.txt".into(), families_table(all).into_bytes()),
     ];
