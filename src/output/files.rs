@@ -57,6 +57,34 @@ pub fn refuse_existing(dir: &Path, files: &[&str], replace: bool) -> Result<(), 
     }
 }
 
+/// Refuses to replace existing files that an earlier run of the same writer did not write,
+/// unless `replace`: `manifest` (a file in `dir`, one name per line) lists what that run wrote,
+/// and those files it may replace. So a re-run refreshes its own outputs and nothing else.
+///
+/// # Errors
+/// [`FileError::Exists`] naming the first existing file not in the manifest.
+pub fn refuse_foreign(
+    dir: &Path,
+    files: &[String],
+    manifest: &str,
+    replace: bool,
+) -> Result<(), FileError> {
+    if replace {
+        return Ok(());
+    }
+    let owned = std::fs::read_to_string(dir.join(manifest)).unwrap_or_default();
+    let owned: std::collections::HashSet<&str> = owned.lines().map(str::trim).collect();
+    match files
+        .iter()
+        .find(|f| dir.join(f).exists() && !owned.contains(f.as_str()))
+    {
+        Some(f) => Err(FileError::Exists {
+            path: dir.join(f).display().to_string(),
+        }),
+        None => Ok(()),
+    }
+}
+
 /// Writes `files` into `dir` atomically as a set: all are written to temporary names first and
 /// renamed only when every one was written, so a failure leaves nothing half-written.
 ///

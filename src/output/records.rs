@@ -49,7 +49,9 @@ pub struct Document<B: Serialize, I: Serialize> {
     pub precision_bits: Option<u32>,
     pub tool_version: &'static str,
     pub inputs: I,
-    pub elapsed_s: f64,
+    /// Wall time in seconds (null in a report whose timings are kept apart because they depend on
+    /// the machine).
+    pub elapsed_s: Option<f64>,
     pub note: &'static str,
 }
 
@@ -61,9 +63,15 @@ impl<B: Serialize, I: Serialize> Document<B, I> {
             precision_bits,
             tool_version: TOOL_VERSION,
             inputs,
-            elapsed_s,
+            elapsed_s: Some(elapsed_s),
             note: NOTE,
         }
+    }
+
+    /// Without its timing (kept in a separate, machine-dependent file).
+    pub fn untimed(mut self) -> Self {
+        self.elapsed_s = None;
+        self
     }
 
     /// With another note.

@@ -10,7 +10,7 @@ use crate::eigenfunction::profile::{self, Profile, ProfileOptions, Target};
 use crate::input::grid::Grid;
 use crate::input::selection::Selection;
 use crate::lattice::catalogue;
-use crate::output::files::{ensure_writable, write_all_atomic, OutputFile};
+use crate::output::files::{ensure_writable, refuse_foreign, write_all_atomic, OutputFile};
 use crate::output::records::{
     families_document, pretty, AuditRecord, Document, Inputs, ProfileRecord, NOTE,
 };
@@ -44,7 +44,16 @@ pub struct TourRequest {
     /// Also write PNG versions of the figures.
     #[cfg_attr(feature = "cli", arg(long))]
     pub png: bool,
+    /// Replace existing files the tour did not write (its own earlier outputs, listed in
+    /// `contents.txt`, are always refreshed).
+    #[cfg_attr(feature = "cli", arg(long = "force"))]
+    pub replace: bool,
 }
+
+/// The list of files the tour wrote (so that a re-run may refresh exactly those).
+pub const CONTENTS: &str = "contents.txt";
+/// The machine-dependent timings of the run, kept apart from the report (git-ignored).
+pub const TIMINGS: &str = "timings.json";
 
 #[derive(Serialize)]
 struct HighInputs {
@@ -74,6 +83,15 @@ struct HighOptions {
 type AuditDocument = Document<AuditRecord, Inputs<AuditOptions>>;
 type ProfileDocument = Document<ProfileRecord, Inputs<HighOptions>>;
 
+/// The machine-dependent part of a tour.
+#[derive(Serialize)]
+struct Timings {
+    tool_version: &'static str,
+    elapsed_s: f64,
+    audits_s: std::collections::BTreeMap<&'static str, f64>,
+    high_precision_s: f64,
+}
+
 #[derive(Serialize)]
 struct TourRecord {
     audits: Vec<AuditDocument>,
@@ -89,6 +107,10 @@ struct TourRecord {
 pub fn tour(request: &TourRequest, progress: Observer<'_>) -> Result<Outcome, CommandError> {
     let start = Instant::now();
     ensure_writable(&request.out)?;
+    let fixed: Vec<String> = ["report.md", "report.json", "families.json", "families.txt"]
+        .map(String::from)
+        .to_vec();
+    refuse_foreign(&request.out, &fixed, CONTENTS, request.replace)?;
     let grid = Grid::parse(TOUR_GRID)?;
     let selections: Vec<Selection> = TOUR_FAMILIES
         .iter()
@@ -133,7 +155,7 @@ pub fn tour(request: &TourRequest, progress: Observer<'_>) -> Result<Outcome, Co
                 },
             };
             let bits = AuditRecord::precision_bits(audit);
-            Document::new(AuditRecord::new(sel.family.id, audit), inputs, bits, *t)
+            Document::new(AuditRecord::new(sel.family.id, audit), inputs, bits, *t).untimed()
         })
         .collect();
     let high_files = build_files(true);
@@ -150,7 +172,8 @@ pub fn tour(request: &TourRequest, progress: Observer<'_>) -> Result<Outcome, Co
         },
         Some(high.precision_bits),
         high_elapsed,
-    );
+    )
+    .untimed();
     let high_json = pretty(&high_doc);
     let precision_bits = audits
         .iter()
@@ -178,15 +201,16 @@ pub fn tour(request: &TourRequest, progress: Observer<'_>) -> Result<Outcome, Co
         precision_bits,
         elapsed,
     )
-    .noting(NOTE);
+    .noting(NOTE)
+    .untimed();
     let json = pretty(&doc);
-    let sections: Vec<(&str, &Audit, f64)> = TOUR_FAMILIES
+    let sections: Vec<(&str, &Audit, Option<f64>)> = TOUR_FAMILIES
         .iter()
         .copied()
         .zip(audits.iter())
-        .map(|(f, (a, t))| (f, a, *t))
+        .map(|(f, (a, _))| (f, a, None))
         .collect();
-    let mut md = markdown::tour_markdown(&sections, &high, TOUR_HIGH, high_elapsed, elapsed);
+    let mut md = markdown::tour_markdown(&sections, &high, TOUR_HIGH, None, None);
     md.push_str(markdown::COLUMNS_NOTE);
     md.push_str(&markdown::figure_links(&figures::captions(&figs)));
     let all = catalogue::all();
@@ -214,6 +238,22 @@ pub fn tour(request: &TourRequest, progress: Observer<'_>) -> Result<Outcome, Co
             .into_iter()
             .map(|(n, c)| (format!("{dir}/{n}"), c.into_bytes())),
     );
+    let timings = Timings {
+        tool_version: crate::TOOL_VERSION,
+        elapsed_s: start.elapsed().as_secs_f64(),
+        audits_s: TOUR_FAMILIES
+            .iter()
+            .zip(&audits)
+            .map(|(id, (_, t))| (*id, *t))
+            .collect(),
+        high_precision_s: high_elapsed,
+    };
+    files.push((TIMINGS.into(), pretty(&timings).into_bytes()));
+    let mut names: Vec<String> = files.iter().map(|f| f.0.clone()).collect();
+    names.push(CONTENTS.into());
+    names.sort();
+    refuse_foreign(&request.out, &names, CONTENTS, request.replace)?;
+    files.push((CONTENTS.into(), (names.join("\n") + "\n").into_bytes()));
     write_all_atomic(&request.out, &files)?;
     Ok(Outcome {
         json,
