@@ -142,7 +142,7 @@ pub fn audit_markdown(family: &str, a: &Audit, digits: u32, elapsed_s: Option<f6
     for u in &a.unmatched {
         out.push_str(&format!(
             "- **unmatched {}**: {:.12} (label {}), nearest {:.12}, relative gap {} — {}\n",
-            u.kind,
+            u.kind.replace('_', " "),
             u.value,
             u.label,
             u.nearest,

@@ -111,7 +111,10 @@ pub(crate) fn unmatched(family: &str, audit: &Audit) -> Option<CommandError> {
         .map(|u| {
             format!(
                 "{} {:.12} (label {}, nearest {:.12})",
-                u.kind, u.value, u.label, u.nearest
+                u.kind.replace('_', " "),
+                u.value,
+                u.label,
+                u.nearest
             )
         })
         .collect();
