@@ -21,3 +21,16 @@ pub fn double(lost: f64) -> f64 {
 pub fn requested(digits: u32, lost: f64) -> f64 {
     tolerance_digits(bits_for_digits(digits as f64), lost)
 }
+
+/// Digits the eigen-equation residual of a double-precision profile may lose: the issue's
+/// requirement, residual ≤ 1e-9 (measured ≤ 9.2e-11 over the audits of all 15 families, levels
+/// 0..4, and 2.2e-12 for the build of dP3 level 2).
+pub const DOUBLE_RESIDUAL_LOSS: f64 = 6.0;
+
+/// Digits of the 40 requested that the eigen-equation residual of a 40-digit profile may lose:
+/// the requirement, residual ≤ 1e-30 (measured ≤ 1.5e-47 for F0 and P2 levels 0..4).
+pub const HIGH_RESIDUAL_LOSS: f64 = 10.0;
+
+/// Detection threshold of the negative controls off the attractor (the requirement: a
+/// defect ≥ 1e-8 at a perturbed modulus); not a tolerance.
+pub const NEGATIVE_CONTROL_MIN: f64 = 1e-8;
