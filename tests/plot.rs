@@ -16,6 +16,10 @@ use std::f64::consts::PI;
 
 // ---- demonstration data ------------------------------------------------------------------
 
+/// Plot data, not a tolerance: the floor line of the demo residual plots, at a decade so that
+/// its label reads "floor 10⁻⁴⁰".
+const DEMO_FLOOR: f64 = 1e-40;
+
 fn grid(lo: f64, hi: f64, n: usize) -> Vec<f64> {
     (0..n)
         .map(|i| lo + (hi - lo) * i as f64 / (n - 1) as f64)
@@ -112,6 +116,7 @@ fn demo_nu() -> NuCurve {
     let crossings: Vec<(f64, i64)> = (1..=7)
         .map(|k| (2.0 * ((k + 1) as f64).sqrt(), k))
         .collect();
+    // Plot data, not a tolerance: the eigenvalue markers a hair off the crossings they match.
     let eigenvalues_log_a = crossings.iter().map(|c| c.0 + 1e-9).collect();
     NuCurve {
         log_a,
@@ -257,7 +262,7 @@ fn heatmap_draws_one_cell_per_grid_value_and_grey_for_each_missing_one() {
 #[test]
 fn residual_plot_has_decades_legend_and_floor() {
     let series = demo_residuals();
-    let svg = residual_plot("F0: eigen-equation residual", &series, Some(1e-40)).unwrap();
+    let svg = residual_plot("F0: eigen-equation residual", &series, Some(DEMO_FLOOR)).unwrap();
     assert_texts(
         &svg,
         &["r", "relative residual", "n = 0", "n = 2", "floor 10⁻⁴⁰"],
@@ -333,7 +338,7 @@ fn png_of_each_figure_has_the_width_asked_for() {
     let svgs = [
         stacked_profiles("F0", &demo_profiles(), "Re ψ").unwrap(),
         strip_heatmap("strip", &demo_strip()).unwrap(),
-        residual_plot("residual", &demo_residuals(), Some(1e-40)).unwrap(),
+        residual_plot("residual", &demo_residuals(), Some(DEMO_FLOOR)).unwrap(),
         nu_plot("F0", &demo_nu()).unwrap(),
         agreement_plot(&demo_agreement()).unwrap(),
     ];
@@ -390,6 +395,7 @@ fn all_nan_and_single_points_are_refused() {
     let single = ResidualSeries {
         label: "n = 0".into(),
         r: vec![1.0, 2.0, 3.0],
+        // Plot data: one plottable residual between a NaN and a negative value.
         residual: vec![f64::NAN, 1e-20, -1.0],
     };
     assert!(matches!(
@@ -502,7 +508,7 @@ fn write_demo_figures() {
         ("strip", strip_heatmap("F0, n = 1", &demo_strip()).unwrap()),
         (
             "residual",
-            residual_plot("F0: residual", &demo_residuals(), Some(1e-40)).unwrap(),
+            residual_plot("F0: residual", &demo_residuals(), Some(DEMO_FLOOR)).unwrap(),
         ),
         ("nu", nu_plot("F0", &demo_nu()).unwrap()),
         ("agreement", agreement_plot(&demo_agreement()).unwrap()),

@@ -7,6 +7,26 @@ use regwave::operator::spectrum::{self, SpectrumOptions};
 use rug::float::Constant;
 use rug::Float;
 
+mod common;
+use common::double;
+
+/// Not a tolerance of the precision: the ≥ 12 digits asserted against the published energies
+/// (18 digits shown; measured 4.5e-18 for F0 and ≤ 1.9e-16 for P2) and claimed by the error
+/// estimate (measured 2.5e-14 relative for F0).
+const PUBLISHED_AGREEMENT: f64 = 1e-12;
+/// Not a tolerance of the precision: the ≥ 9 digits of the traces at basis N = 260, limited by
+/// the truncation of the basis (measured 3.6e-11 and 7.4e-12).
+const TRACE_AGREEMENT: f64 = 1e-9;
+/// Digits the norm and the parity of ψ₀ on R may lose in double precision (trapezoid sum of the
+/// f64 wavefunction; measured 3.3e-16 and 3.3e-17), plus two of margin.
+const WAVEFUNCTION_LOSS: f64 = 2.0;
+/// Digits a general-purpose f64 eigensolver loses at N = 12: ε·‖H‖·N/λ with entries ≲ 1e10,
+/// about 9 (measured ≤ 2.8e-14 for P2 and ≤ 2.1e-9 for Q7 through its real embedding).
+const F64_EIGENSOLVER_LOSS: f64 = 9.0;
+/// Not a tolerance: an absolute floor of the comparison of two spectra should both error
+/// estimates vanish (never reached: the estimates give ≥ 2e-7).
+const ESTIMATE_FLOOR: f64 = 1e-12;
+
 fn family(id: &str) -> Laurent {
     selection::resolve(Some(id), None, None).unwrap().laurent
 }
@@ -38,9 +58,9 @@ fn f0_ground_state_energy() {
     let l = &s.levels[0];
     let e0 = Float::with_val(s.working_bits, l.value.ln_ref());
     let r = rel(&e0, &parse(s.working_bits, "2.88181542992629678"));
-    assert!(r < 1e-12 * 2.0, "E0 relative error {r:e}");
+    assert!(r < PUBLISHED_AGREEMENT, "E0 relative error {r:e}");
     assert!(
-        l.error_estimate < 1e-12 * l.value.to_f64(),
+        l.error_estimate < PUBLISHED_AGREEMENT * l.value.to_f64(),
         "estimate {}",
         l.error_estimate
     );
@@ -65,11 +85,15 @@ fn p2_two_lowest_energies() {
     {
         let e = Float::with_val(s.working_bits, l.value.ln_ref());
         let r = rel(&e, &parse(s.working_bits, reference));
-        assert!(r < 1e-12, "level {}: relative error {r:e}", l.level);
+        assert!(
+            r < PUBLISHED_AGREEMENT,
+            "level {}: relative error {r:e}",
+            l.level
+        );
         // The reported estimate must not be optimistic by more than a factor 10.
         let abs_err = r * e.to_f64() * l.value.to_f64();
         assert!(
-            abs_err <= 10.0 * l.error_estimate.max(1e-300),
+            abs_err <= 10.0 * l.error_estimate.max(f64::MIN_POSITIVE),
             "level {}: {abs_err:e} vs estimate {:e}",
             l.level,
             l.error_estimate
@@ -104,8 +128,16 @@ fn p2_traces_of_the_inverse() {
         previous = Some((t1, t2));
     }
     let (t1, t2) = previous.unwrap();
-    assert!(rel(&t1, &ninth) < 1e-9, "Tr O^-1: {:e}", rel(&t1, &ninth));
-    assert!(rel(&t2, &second) < 1e-9, "Tr O^-2: {:e}", rel(&t2, &second));
+    assert!(
+        rel(&t1, &ninth) < TRACE_AGREEMENT,
+        "Tr O^-1: {:e}",
+        rel(&t1, &ninth)
+    );
+    assert!(
+        rel(&t2, &second) < TRACE_AGREEMENT,
+        "Tr O^-2: {:e}",
+        rel(&t2, &second)
+    );
 }
 
 #[test]
@@ -152,12 +184,18 @@ fn ground_state_wavefunction_is_normalized() {
     let norm: f64 = (-800..=800)
         .map(|k| s.wavefunction(0, k as f64 * h).unwrap().norm_sqr() * h)
         .sum();
-    assert!((norm - 1.0).abs() < 1e-8, "norm {norm}");
+    assert!(
+        (norm - 1.0).abs() < double(WAVEFUNCTION_LOSS),
+        "norm {norm}"
+    );
     let (a, b) = (
         s.wavefunction(0, 1.7).unwrap(),
         s.wavefunction(0, -1.7).unwrap(),
     );
-    assert!((a - b).norm() < 1e-8 * a.norm(), "{a} vs {b}");
+    assert!(
+        (a - b).norm() < double(WAVEFUNCTION_LOSS) * a.norm(),
+        "{a} vs {b}"
+    );
 }
 
 #[test]
@@ -190,7 +228,11 @@ fn multiprecision_solver_agrees_with_nalgebra_on_a_small_truncation() {
         let f64_values: Vec<f64> = f64_values.iter().step_by(2).copied().collect();
         let ours = spectrum::truncated_eigenvalues(&l, &frame, n, 3, 20).unwrap();
         for k in 0..3 {
-            approx::assert_relative_eq!(ours[k].to_f64(), f64_values[k], max_relative = 1e-6);
+            approx::assert_relative_eq!(
+                ours[k].to_f64(),
+                f64_values[k],
+                max_relative = double(F64_EIGENSOLVER_LOSS)
+            );
         }
         assert_eq!(frame.mirror.is_some(), id == "P2");
     }
@@ -220,7 +262,7 @@ fn complex_and_real_matrices_give_the_same_spectrum_for_families_with_equal_peri
                 .to_f64()
                 .abs();
             assert!(
-                d <= tol.max(1e-12),
+                d <= tol.max(ESTIMATE_FLOOR),
                 "{complex_id} vs {real_id} level {k}: {d:e} (tol {tol:e})"
             );
         }
