@@ -255,7 +255,7 @@ fn unknown_family_and_bad_ranges() {
             "--vertices",
             "(1,0),(0,1),(-1,-1)",
         ],
-        "not both",
+        "cannot be used with",
     );
 }
 
@@ -322,10 +322,19 @@ fn tour_writes_every_promised_file() {
         "high_precision",
         "tool_version",
         "inputs",
-        "elapsed_s",
         "precision_bits",
     ] {
         assert!(!v[key].is_null(), "report.json lacks {key}");
+    }
+    // The report's timing is kept apart (machine-dependent), in timings.json.
+    assert!(v["elapsed_s"].is_null());
+    let timings: serde_json::Value =
+        serde_json::from_str(&std::fs::read_to_string(dir.join("timings.json")).unwrap()).unwrap();
+    assert!(timings["elapsed_s"].as_f64().unwrap() > 0.0);
+    // The tables behind the figures: one row per level.
+    for id in ["F0", "P2", "dP3"] {
+        let levels = std::fs::read_to_string(dir.join(format!("levels-{id}.csv"))).unwrap();
+        assert_eq!(levels.lines().count(), 1 + 5, "levels-{id}.csv");
     }
     let audits = v["audits"].as_array().unwrap();
     assert_eq!(audits.len(), 3);
@@ -351,7 +360,48 @@ fn tour_writes_every_promised_file() {
         !md.contains("unmatched**"),
         "an unmatched level in the tour: {md}"
     );
+    // Run again without --force: the tour refreshes its own files (contents.txt), and every file
+    // but the timings comes out byte for byte the same, so the committed copy stays unchanged.
+    let before = snapshot(&dir);
+    let o = regwave(&["tour", "--out", dir.to_str().unwrap()]);
+    assert!(o.status.success(), "{}", stderr(&o));
+    let after = snapshot(&dir);
+    assert_eq!(before.len(), after.len());
+    for ((name, a), (_, b)) in before.iter().zip(&after) {
+        if !name.ends_with("timings.json") {
+            assert!(a == b, "{name} changed between two runs");
+        }
+    }
+    // Files the tour did not write are not replaced without --force.
+    let foreign = temp_dir("tour-foreign");
+    std::fs::create_dir_all(&foreign).unwrap();
+    std::fs::write(foreign.join("report.md"), "mine").unwrap();
+    rejects(&["tour", "--out", foreign.to_str().unwrap()], "--force");
+    assert_eq!(
+        std::fs::read_to_string(foreign.join("report.md")).unwrap(),
+        "mine"
+    );
+    let _ = std::fs::remove_dir_all(&foreign);
     let _ = std::fs::remove_dir_all(&dir);
+}
+
+/// Every file below `dir` with its contents, sorted by path.
+fn snapshot(dir: &std::path::Path) -> Vec<(String, Vec<u8>)> {
+    let mut out = Vec::new();
+    let mut stack = vec![dir.to_path_buf()];
+    while let Some(d) = stack.pop() {
+        for entry in std::fs::read_dir(&d).unwrap() {
+            let path = entry.unwrap().path();
+            if path.is_dir() {
+                stack.push(path);
+            } else {
+                let name = path.strip_prefix(dir).unwrap().display().to_string();
+                out.push((name, std::fs::read(&path).unwrap()));
+            }
+        }
+    }
+    out.sort();
+    out
 }
 
 /// The documented keys of an audit JSON document.
@@ -611,15 +661,26 @@ fn temp_dir(tag: &str) -> std::path::PathBuf {
     d
 }
 
-/// Rows of a psi CSV: (r, re, im), after checking the header.
+/// Rows of a psi CSV: (r, re, im), after checking the header (`r,re_psi,im_psi` on R,
+/// `r,im_r,re_psi,im_psi` on the boundary lines of the strip, where im_r must be ±2π).
 fn read_csv(path: &std::path::Path) -> Vec<(f64, f64, f64)> {
     let text = std::fs::read_to_string(path).unwrap();
     let mut lines = text.lines();
-    assert_eq!(lines.next(), Some("r,re_psi,im_psi"));
+    let strip = match lines.next() {
+        Some("r,re_psi,im_psi") => false,
+        Some("r,im_r,re_psi,im_psi") => true,
+        other => panic!("unexpected header {other:?}"),
+    };
     lines
         .map(|l| {
             let v: Vec<f64> = l.split(',').map(|x| x.parse::<f64>().unwrap()).collect();
-            (v[0], v[1], v[2])
+            if strip {
+                let two_pi = 2.0 * std::f64::consts::PI;
+                assert!((v[1].abs() - two_pi).abs() < 1e-15, "im_r = {}", v[1]);
+                (v[0], v[2], v[3])
+            } else {
+                (v[0], v[1], v[2])
+            }
         })
         .collect()
 }
@@ -753,6 +814,12 @@ fn build_refuses_bad_input() {
     assert!(o.status.success(), "{}", stderr(&o));
     let v: serde_json::Value =
         serde_json::from_str(&std::fs::read_to_string(dir.join("psi.json")).unwrap()).unwrap();
-    assert!(v["nu_distance_to_integer"].as_f64().unwrap() > NOT_AN_INTEGER);
+    // Numbers with more than double precision are decimal strings.
+    let distance: f64 = v["nu_distance_to_integer"]
+        .as_str()
+        .unwrap()
+        .parse()
+        .unwrap();
+    assert!(distance > NOT_AN_INTEGER);
     let _ = std::fs::remove_dir_all(&dir);
 }
