@@ -1,15 +1,18 @@
-//! Stacked profiles: ψₙ(r) on R for several levels, each on its own baseline.
+//! Stacked profiles: ψₙ(r) on ℝ for several levels, each on its own baseline.
 //!
 //! # Method
 //! Horizontal axis r; level n is drawn on the baseline y = n: the real part of the phase-fixed
-//! ψₙ as a line and ±|ψₙ| as a thin envelope, both scaled so that max|ψₙ| reaches
-//! [`PROFILE_HALF_HEIGHT`] above the baseline. The vertical tick labels name the levels
-//! ("n = 0", …), a label per curve gives its modulus aₙ (six significant digits). The legend
-//! explains the two line styles, in ink.
+//! ψₙ as a solid line and ±|ψₙ| as a thin dashed envelope, both scaled so that max|ψₙ| reaches
+//! [`PROFILE_HALF_HEIGHT`] above the baseline. Every level has the same two styles (the
+//! baselines tell the levels apart), so the legend's two keys are exactly what is drawn. The
+//! vertical tick labels name the levels ("n = 0", …); a label per curve gives its modulus aₙ
+//! (six significant digits) at the first of four places beside its baseline (above it at the
+//! right, at the left, below it at the right, at the left) where it meets no curve, no legend
+//! and no other label.
 //!
 //! # Accuracy
-//! Each curve is scaled by its own largest sampled |ψ|; positions are rounded to half a nominal
-//! pixel. `tests/plot.rs` checks the level labels, the moduli and the legend.
+//! Each curve is scaled by its own largest sampled |ψ|; positions to 0.01 px. `tests/plot.rs`
+//! checks the level labels, the moduli, the legend, and that no label meets a curve.
 //!
 //! # Errors
 //! [`PlotError::NoSeries`], [`PlotError::LengthMismatch`], [`PlotError::TooFewPoints`],
@@ -19,25 +22,29 @@
 //! None: a drawing convention.
 
 use super::axes::{
-    chart_on, draw_axes, draw_curve, draw_legend, legend_key, legend_room, render_svg,
-    series_colour, text, Axes, Chart, Ticked,
+    draw_axes, draw_grid, draw_legend, draw_series, draw_title, font, grown, least_crowded,
+    legend_room, plot_rect, round_ticks, text_box, Axes, Corner, Frame, Key, LegendEntry, LineLook,
+    Obstacles,
 };
 use super::data::{check_series, extent, finite_runs, padded, LINE_POINTS};
 use super::numbers::{significant, tick_label};
-use super::{PlotError, FIGURE_SIZE, INK, LINE_WIDTH, PROFILE_HALF_HEIGHT, THIN_WIDTH, TICK_SIZE};
+use super::style::series_style;
+use super::svg::{Anchor, Rgb, Stroke, Svg};
+use super::{PlotError, FIGURE_SIZE, LINE_WIDTH, PROFILE_HALF_HEIGHT, THIN_WIDTH, TICK_SIZE};
 use num_complex::Complex64;
-use plotters::coord::types::RangedCoordf64;
-use plotters::prelude::*;
-use plotters::style::text_anchor::{HPos, Pos, VPos};
 
-/// ψₙ sampled on R at one level, normalized and phase-fixed by the caller.
+/// The envelope: a muted slate, lighter than the real part, dashed.
+const ENVELOPE: Rgb = Rgb(0x6f, 0x80, 0xa0);
+const ENVELOPE_DASH: &[f64] = &[5.0, 3.0];
+
+/// ψₙ sampled on ℝ at one level, normalized and phase-fixed by the caller.
 #[derive(Debug, Clone, PartialEq)]
 pub struct ProfileSeries {
     /// The level n; the curve is drawn on the baseline y = n.
     pub level: usize,
     /// The modulus aₙ, shown beside the curve.
     pub modulus: f64,
-    /// Sample points on R.
+    /// Sample points on ℝ.
     pub r: Vec<f64>,
     /// ψₙ(r); NaN where not sampled (a gap in the curves).
     pub values: Vec<Complex64>,
@@ -86,14 +93,14 @@ impl ProfileSeries {
     }
 }
 
-/// ψₙ on R for several levels, each on its own baseline (see the module documentation).
+/// ψₙ on ℝ for several levels, each on its own baseline (see the module documentation).
 /// `real_label` names the plotted real part in the legend (e.g. "Re ψ").
 ///
 /// # Errors
 /// [`PlotError::NoSeries`] for no series; a series with mismatched lengths, fewer than two
 /// finite samples, or ψ ≡ 0; all samples at one r.
 pub fn stacked_profiles(
-    family: &str,
+    title: Option<&str>,
     series: &[ProfileSeries],
     real_label: &str,
 ) -> Result<String, PlotError> {
@@ -115,54 +122,98 @@ pub fn stacked_profiles(
         });
     // Room below the lowest envelope, and above the highest for the legend's two rows.
     let (bottom, top) = (lo - 0.65, hi + PROFILE_HALF_HEIGHT + 0.1);
-    let y = Ticked::new(bottom..legend_room(bottom, top, 2), levels);
-    let title = format!("{family}: eigenfunctions on R");
-    render_svg(FIGURE_SIZE, |root| {
-        let mut chart = chart_on(root, &title, padded(r_extent, 0.01), y)?;
-        let level_tick = |v: &f64| format!("n = {}", v.round());
-        draw_axes(
-            &mut chart,
-            &Axes {
-                x_desc: "r",
-                y_desc: "level n (offset ψₙ)",
-                x_ticks: &tick_label,
-                y_ticks: &level_tick,
-            },
-        )?;
-        for (i, (s, &peak)) in series.iter().zip(&peaks).enumerate() {
-            let legend = (i == 0).then_some((real_label, "±|ψ|"));
-            draw_profile(&mut chart, s, peak, series_colour(i), legend)?;
+    let x = padded(r_extent, 0.01);
+    let axes = Axes {
+        x_desc: "r",
+        y_desc: "level n (offset ψₙ)",
+        x_ticks: round_ticks(x.start, x.end, 7)
+            .into_iter()
+            .map(|v| (v, tick_label(&v)))
+            .collect(),
+        y_ticks: levels
+            .iter()
+            .map(|&l| (l, format!("n = {}", l.round())))
+            .collect(),
+    };
+    let area = (0.0, 0.0, FIGURE_SIZE.0 as f64, FIGURE_SIZE.1 as f64);
+    let rect = plot_rect(area, title.is_some(), &axes.y_ticks, 0.0);
+    let frame = Frame::new(rect, x, bottom..legend_room(bottom, top, 2));
+    let mut svg = Svg::new(FIGURE_SIZE);
+    if let Some(title) = title {
+        draw_title(&mut svg, area, title);
+    }
+    draw_grid(&mut svg, &frame, &axes);
+    let real = LineLook::plain(Stroke::solid(series_style(0).colour, LINE_WIDTH));
+    let envelope = LineLook::plain(Stroke::dashed(ENVELOPE, THIN_WIDTH, ENVELOPE_DASH));
+    let mut obstacles = Obstacles::default();
+    for (s, &peak) in series.iter().zip(&peaks) {
+        let name = s.name();
+        for sign in [1.0, -1.0] {
+            let runs = s.offset_runs(peak, |v| sign * v.norm());
+            let label = format!("{} {name}", if sign > 0.0 { "+|ψ|" } else { "−|ψ|" });
+            draw_series(
+                &mut svg,
+                &frame,
+                &runs,
+                &envelope,
+                Some(&label),
+                (0, 0.0),
+                &mut obstacles,
+            );
         }
-        draw_legend(&mut chart, SeriesLabelPosition::UpperRight)
-    })
+        let runs = s.offset_runs(peak, |v| v.re);
+        let label = format!("{real_label} {name}");
+        draw_series(
+            &mut svg,
+            &frame,
+            &runs,
+            &real,
+            Some(&label),
+            (0, 0.0),
+            &mut obstacles,
+        );
+    }
+    draw_axes(&mut svg, &frame, &axes);
+    let legend = [
+        LegendEntry {
+            label: real_label.to_string(),
+            key: Key::Line(real),
+        },
+        LegendEntry {
+            label: "±|ψ|".into(),
+            key: Key::Line(envelope),
+        },
+    ];
+    let corners = [Corner::UpperRight, Corner::UpperLeft];
+    if let Some(r) = draw_legend(&mut svg, &frame, &legend, &corners, &obstacles) {
+        obstacles.add_box(r);
+    }
+    for s in series {
+        draw_modulus_label(&mut svg, &frame, s, &mut obstacles);
+    }
+    Ok(svg.finish())
 }
 
-/// One level: the envelope ±|ψ| thin and light, Re ψ on top, the modulus label at the left.
-fn draw_profile(
-    chart: &mut Chart<'_, '_, RangedCoordf64, Ticked>,
-    s: &ProfileSeries,
-    peak: f64,
-    colour: RGBColor,
-    legend: Option<(&str, &str)>,
-) -> Result<(), PlotError> {
-    let envelope = colour.mix(0.45).stroke_width(THIN_WIDTH);
-    let envelope_legend = INK.mix(0.45).stroke_width(THIN_WIDTH);
-    for sign in [1.0, -1.0] {
-        let runs = s.offset_runs(peak, |v| sign * v.norm());
-        draw_curve(chart, runs, envelope, None)?;
-    }
-    let real = s.offset_runs(peak, |v| v.re);
-    draw_curve(chart, real, colour.stroke_width(LINE_WIDTH), None)?;
-    if let Some((real_label, envelope_label)) = legend {
-        // The legend explains line styles, not levels: draw its keys in ink, off the data.
-        legend_key(chart, real_label, INK.stroke_width(LINE_WIDTH))?;
-        legend_key(chart, envelope_label, envelope_legend)?;
-    }
-    // Just above the baseline at the left end, where ψ has decayed.
-    let x = chart.x_range();
-    let at = (x.start + 0.015 * (x.end - x.start), s.level as f64 + 0.04);
+/// "a = …" beside the baseline of a level, where it meets no curve.
+fn draw_modulus_label(svg: &mut Svg, frame: &Frame, s: &ProfileSeries, obstacles: &mut Obstacles) {
     let label = format!("a = {}", significant(s.modulus, 6));
-    let style = text(TICK_SIZE).pos(Pos::new(HPos::Left, VPos::Bottom));
-    chart.draw_series(std::iter::once(Text::new(label, at, style)))?;
-    Ok(())
+    let y = frame.y.at(s.level as f64);
+    let (left, right) = (frame.left() + 6.0, frame.right() - 6.0);
+    let (above, below) = (y - 6.0, y + 6.0 + 0.8 * TICK_SIZE);
+    let places = [
+        ((right, above), Anchor::End),
+        ((left, above), Anchor::Start),
+        ((right, below), Anchor::End),
+        ((left, below), Anchor::Start),
+    ];
+    let boxes: Vec<_> = places
+        .iter()
+        .map(|&(at, anchor)| grown(text_box(at, &label, TICK_SIZE, anchor), 1.0))
+        .collect();
+    let best = least_crowded(&boxes, obstacles);
+    let (at, anchor) = places[best];
+    svg.open_group("label", None);
+    svg.text(at, &label, &font(TICK_SIZE, anchor));
+    svg.close_group();
+    obstacles.add_box(boxes[best]);
 }
