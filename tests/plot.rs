@@ -107,6 +107,27 @@ fn demo_residuals() -> Vec<ResidualSeries> {
         .collect()
 }
 
+/// Five levels in two clusters fourteen decades apart, as when some levels were computed at a
+/// higher precision: the upper cluster runs flat up to the legend's corners.
+fn clustered_residuals() -> Vec<ResidualSeries> {
+    [-13.0, -12.2, -11.7, -26.0, -25.8]
+        .iter()
+        .enumerate()
+        .map(|(n, &centre)| {
+            let r = grid(-12.0, 12.0, 241);
+            let residual = r
+                .iter()
+                .map(|&x| 10f64.powf(centre + 0.7 * (7.0 * x + n as f64).sin()))
+                .collect();
+            ResidualSeries {
+                label: format!("n = {n}"),
+                r,
+                residual,
+            }
+        })
+        .collect()
+}
+
 fn demo_nu() -> NuCurve {
     let log_a = grid(2.0, 6.0, 161);
     // ν = (log a)²/4 − 1, crossing the integers at log a = 2√(k + 1).
@@ -562,8 +583,14 @@ fn labels_and_legends_keep_off_the_curves() {
     let nu = nu_plot(None, &demo_nu()).unwrap();
     assert_clear_of_curves(&nu, "label", demo_nu().crossings.len());
     assert_clear_of_curves(&nu, "legend", 3);
-    let residual = residual_plot(None, &demo_residuals(), Some(1e-40)).unwrap();
-    assert_clear_of_curves(&residual, "legend", 4);
+    // The residuals rise to both ends: the legend needs the head room made for it, with a
+    // title band or without.
+    for title in [None, Some("F0: residual")] {
+        let residual = residual_plot(title, &demo_residuals(), Some(1e-40)).unwrap();
+        assert_clear_of_curves(&residual, "legend", 4);
+        let residual = residual_plot(title, &clustered_residuals(), None).unwrap();
+        assert_clear_of_curves(&residual, "legend", 5);
+    }
 
     // Where the preferred places are taken: a falling ν(a) fills the upper left corner (the
     // legend's first choice) and the upper left of each dot (a label's); profiles pushed to
@@ -856,8 +883,17 @@ fn write_demo_figures() {
     };
     let dir = std::path::PathBuf::from(dir);
     std::fs::create_dir_all(&dir).unwrap();
-    let names = ["profiles", "strip", "residual", "nu", "agreement"];
-    for (name, svg) in names.iter().zip(all_figures(true)) {
+    let names = [
+        "profiles",
+        "strip",
+        "residual",
+        "nu",
+        "agreement",
+        "residual-clustered",
+    ];
+    let mut figures = all_figures(true);
+    figures.push(residual_plot(Some("clustered"), &clustered_residuals(), None).unwrap());
+    for (name, svg) in names.iter().zip(figures) {
         std::fs::write(dir.join(format!("{name}.svg")), &svg).unwrap();
         std::fs::write(dir.join(format!("{name}.png")), to_png(&svg, 1280).unwrap()).unwrap();
         std::fs::write(dir.join(format!("{name}.pdf")), to_pdf(&svg).unwrap()).unwrap();

@@ -83,7 +83,12 @@ pub fn agreement_plot(title: Option<&str>, bars: &[AgreementBars]) -> Result<Str
     let highest = all.clone().fold(1.0, f64::max);
     let bottom = all.fold(0.0, f64::min) * 1.05;
     let has_caps = bars.iter().any(|b| b.caps.iter().any(|c| c.is_finite()));
-    let top = legend_room(bottom, 1.05 * highest, bars.len() + usize::from(has_caps));
+    let top = legend_room(
+        bottom,
+        1.05 * highest,
+        bars.len() + usize::from(has_caps),
+        title.is_some(),
+    );
     let axes = Axes {
         x_desc: "level n",
         y_desc: "agreement digits",

@@ -239,10 +239,11 @@ pub(super) fn round_ticks(lo: f64, hi: f64, count: usize) -> Vec<f64> {
 }
 
 /// The top of a value axis from `lo` to `hi` raised so that a legend of `rows` rows fits
-/// above the data in an upper corner.
-pub(super) fn legend_room(lo: f64, hi: f64, rows: usize) -> f64 {
-    let legend = (rows as f64 * LEGEND_ROW + 2.0 * LEGEND_PADDING + 8.0) / PLOT_HEIGHT;
-    lo + (hi - lo) / (1.0 - legend.min(0.5))
+/// above the data in an upper corner of a single panel (`titled`: with its title band).
+pub(super) fn legend_room(lo: f64, hi: f64, rows: usize, titled: bool) -> f64 {
+    let height = PLOT_HEIGHT - if titled { TITLE_BAND } else { 0.0 };
+    let legend = (rows as f64 * LEGEND_ROW + 2.0 * LEGEND_PADDING + LEGEND_INSET + 4.0) / height;
+    lo + (hi - lo) / (1.0 - legend.min(0.6))
 }
 
 /// Whole units (decades, integers) between labelled ticks: about six labels over `span`.

@@ -137,7 +137,11 @@ pub fn stacked_profiles(
     };
     let area = (0.0, 0.0, FIGURE_SIZE.0 as f64, FIGURE_SIZE.1 as f64);
     let rect = plot_rect(area, title.is_some(), &axes.y_ticks, 0.0);
-    let frame = Frame::new(rect, x, bottom..legend_room(bottom, top, 2));
+    let frame = Frame::new(
+        rect,
+        x,
+        bottom..legend_room(bottom, top, 2, title.is_some()),
+    );
     let mut svg = Svg::new(FIGURE_SIZE);
     if let Some(title) = title {
         draw_title(&mut svg, area, title);

@@ -85,7 +85,7 @@ pub fn residual_plot(
     let floor = floor.filter(|f| *f > 0.0 && f.is_finite());
     let logs = runs.iter().flatten().flatten().map(|p| p.1);
     let (lo, hi) = log_extent(logs.chain(floor.map(f64::log10)));
-    let hi = legend_room(lo, hi, series.len() + floor.iter().count()).ceil();
+    let hi = legend_room(lo, hi, series.len() + floor.iter().count(), title.is_some()).ceil();
     let step = tick_step(hi - lo);
     let decades = (lo as i32..=hi as i32).filter(|e| e % step == 0);
     let x = padded(r_extent, 0.01);
