@@ -132,6 +132,9 @@ pub(super) fn centred_baseline(y: f64, size: f64) -> f64 {
 const TITLE_BAND: f64 = 34.0;
 const TICK_LENGTH: f64 = 5.0;
 const TICK_GAP: f64 = 4.0;
+/// Between the vertical tick labels and the baseline of the upright axis description, which
+/// descenders and subscripts (ψₙ) reach into.
+const DESC_GAP: f64 = 14.0;
 
 /// The plot rectangle of a chart on a canvas region `area`, with room for a title when
 /// `titled`, for the vertical tick labels given, and `right` px kept free at the right.
@@ -141,7 +144,7 @@ pub(super) fn plot_rect(area: Rect, titled: bool, y_ticks: &[(f64, String)], rig
         .iter()
         .map(|(_, s)| text_width(s, TICK_SIZE))
         .fold(0.0, f64::max);
-    let left = ax + MARGIN + LABEL_SIZE + 12.0 + widest + TICK_LENGTH + TICK_GAP;
+    let left = ax + MARGIN + LABEL_SIZE + DESC_GAP + 4.0 + widest + TICK_LENGTH + TICK_GAP;
     let top = ay + MARGIN + if titled { TITLE_BAND } else { 0.0 };
     let bottom = ay + ah - X_LABEL_AREA;
     let r = ax + aw - MARGIN - right;
@@ -208,7 +211,7 @@ pub(super) fn draw_axes(svg: &mut Svg, frame: &Frame, axes: &Axes<'_>) {
         .iter()
         .map(|(_, s)| text_width(s, TICK_SIZE))
         .fold(0.0, f64::max);
-    let y_desc_baseline = l - TICK_LENGTH - TICK_GAP - widest - 10.0;
+    let y_desc_baseline = l - TICK_LENGTH - TICK_GAP - widest - DESC_GAP;
     let upright = Font {
         upright: true,
         ..font(LABEL_SIZE, Anchor::Middle)

@@ -36,13 +36,13 @@ use std::ops::Range;
 /// The higher normal function along a range of moduli, with the attractors found on it.
 #[derive(Debug, Clone, PartialEq, Default)]
 pub struct NuCurve {
-    /// log a at the samples.
+    /// ln a (the natural logarithm) at the samples.
     pub log_a: Vec<f64>,
     /// ν(a) at the samples; NaN where not computed (a gap).
     pub nu: Vec<f64>,
-    /// Attractor moduli: (log a, the integer ν there).
+    /// Attractor moduli: (ln a, the integer ν there).
     pub crossings: Vec<(f64, i64)>,
-    /// log of the eigenvalues of the independent spectrum, marked on the horizontal axis.
+    /// ln of the eigenvalues of the independent spectrum, marked on the horizontal axis.
     pub eigenvalues_log_a: Vec<f64>,
 }
 
@@ -216,7 +216,9 @@ fn draw_eigenvalue_ticks(
     stroke: &Stroke,
     obstacles: &mut Obstacles,
 ) {
-    let (bottom, top) = (frame.bottom(), frame.bottom() - 0.06 * frame.rect.3);
+    // The round cap of the stroke would poke below the axis: start half a width above it.
+    let bottom = frame.bottom() - 0.5 * stroke.width;
+    let top = frame.bottom() - 0.06 * frame.rect.3;
     svg.open_group("series", Some("independent spectrum"));
     for &v in eigenvalues_log_a
         .iter()

@@ -5,10 +5,9 @@
 //! ψₙ as a solid line and ±|ψₙ| as a thin dashed envelope, both scaled so that max|ψₙ| reaches
 //! [`PROFILE_HALF_HEIGHT`] above the baseline. Every level has the same two styles (the
 //! baselines tell the levels apart), so the legend's two keys are exactly what is drawn. The
-//! vertical tick labels name the levels ("n = 0", …); a label per curve gives its modulus aₙ
-//! (six significant digits) at the first of four places beside its baseline (above it at the
-//! right, at the left, below it at the right, at the left) where it meets no curve, no legend
-//! and no other label.
+//! vertical tick labels name the levels ("n = 0", …); right of the plot, level with each
+//! baseline, a label gives the modulus aₙ (six significant digits): outside the data it can
+//! meet no curve, and every level's label stands in the same place.
 //!
 //! # Accuracy
 //! Each curve is scaled by its own largest sampled |ψ|; positions to 0.01 px. `tests/plot.rs`
@@ -22,16 +21,20 @@
 //! None: a drawing convention.
 
 use super::axes::{
-    draw_axes, draw_grid, draw_legend, draw_series, draw_title, font, grown, least_crowded,
-    legend_room, plot_rect, round_ticks, text_box, Axes, Corner, Frame, Key, LegendEntry, LineLook,
+    centred_baseline, draw_axes, draw_grid, draw_legend, draw_series, draw_title, font,
+    legend_room, plot_rect, round_ticks, Axes, Corner, Frame, Key, LegendEntry, LineLook,
     Obstacles,
 };
 use super::data::{check_series, extent, finite_runs, padded, LINE_POINTS};
 use super::numbers::{significant, tick_label};
+use super::png::text_width;
 use super::style::series_style;
 use super::svg::{Anchor, Rgb, Stroke, Svg};
 use super::{PlotError, FIGURE_SIZE, LINE_WIDTH, PROFILE_HALF_HEIGHT, THIN_WIDTH, TICK_SIZE};
 use num_complex::Complex64;
+
+/// Between the plot's right edge and the modulus labels.
+const LABEL_GAP: f64 = 8.0;
 
 /// The envelope: a muted slate, lighter than the real part, dashed.
 const ENVELOPE: Rgb = Rgb(0x6f, 0x80, 0xa0);
@@ -136,7 +139,15 @@ pub fn stacked_profiles(
             .collect(),
     };
     let area = (0.0, 0.0, FIGURE_SIZE.0 as f64, FIGURE_SIZE.1 as f64);
-    let rect = plot_rect(area, title.is_some(), &axes.y_ticks, 0.0);
+    let moduli: Vec<String> = series
+        .iter()
+        .map(|s| format!("a = {}", significant(s.modulus, 6)))
+        .collect();
+    let widest = moduli
+        .iter()
+        .map(|m| text_width(m, TICK_SIZE))
+        .fold(0.0, f64::max);
+    let rect = plot_rect(area, title.is_some(), &axes.y_ticks, widest + LABEL_GAP);
     let frame = Frame::new(
         rect,
         x,
@@ -189,35 +200,13 @@ pub fn stacked_profiles(
         },
     ];
     let corners = [Corner::UpperRight, Corner::UpperLeft];
-    if let Some(r) = draw_legend(&mut svg, &frame, &legend, &corners, &obstacles) {
-        obstacles.add_box(r);
-    }
-    for s in series {
-        draw_modulus_label(&mut svg, &frame, s, &mut obstacles);
-    }
-    Ok(svg.finish())
-}
-
-/// "a = …" beside the baseline of a level, where it meets no curve.
-fn draw_modulus_label(svg: &mut Svg, frame: &Frame, s: &ProfileSeries, obstacles: &mut Obstacles) {
-    let label = format!("a = {}", significant(s.modulus, 6));
-    let y = frame.y.at(s.level as f64);
-    let (left, right) = (frame.left() + 6.0, frame.right() - 6.0);
-    let (above, below) = (y - 6.0, y + 6.0 + 0.8 * TICK_SIZE);
-    let places = [
-        ((right, above), Anchor::End),
-        ((left, above), Anchor::Start),
-        ((right, below), Anchor::End),
-        ((left, below), Anchor::Start),
-    ];
-    let boxes: Vec<_> = places
-        .iter()
-        .map(|&(at, anchor)| grown(text_box(at, &label, TICK_SIZE, anchor), 1.0))
-        .collect();
-    let best = least_crowded(&boxes, obstacles);
-    let (at, anchor) = places[best];
+    draw_legend(&mut svg, &frame, &legend, &corners, &obstacles);
     svg.open_group("label", None);
-    svg.text(at, &label, &font(TICK_SIZE, anchor));
+    for (s, label) in series.iter().zip(&moduli) {
+        let y = centred_baseline(frame.y.at(s.level as f64), TICK_SIZE);
+        let at = (frame.right() + LABEL_GAP, y);
+        svg.text(at, label, &font(TICK_SIZE, Anchor::Start));
+    }
     svg.close_group();
-    obstacles.add_box(boxes[best]);
+    Ok(svg.finish())
 }
