@@ -407,6 +407,9 @@ fn residual_plot_has_decades_legend_and_floor() {
     assert!(count(&svg, "polyline") >= 2 * series.len());
     let without = residual_plot(None, &series, None).unwrap();
     assert!(count(&svg, "polyline") > count(&without, "polyline"));
+    // A floor that is no power of ten, in the notation of the axis.
+    let svg = residual_plot(None, &series, Some(f64::EPSILON / 2.0)).unwrap();
+    assert_texts(&svg, &["floor 1.11 × 10⁻¹⁶"]);
 }
 
 /// (stroke, width, dash pattern) of the first polyline and (class, fill) of the first marker

@@ -11,8 +11,8 @@
 //! scales in 128 steps. Horizontal axis Re r, vertical axis Im r from −2π to 2π with
 //! ticks at the multiples of π.
 //!
-//! Each panel is one PNG image embedded in the SVG, of about one image pixel for every
-//! [`RASTER_PX`] px of the plot: at the centre of each image pixel ψ is interpolated
+//! Each panel is one PNG image embedded in the SVG, of one image pixel for every 1.5 px of
+//! the plot (the viewer's smoothing fills in between): at the centre of each image pixel ψ is interpolated
 //! bilinearly between the four surrounding grid values (a complex interpolation: its modulus
 //! and argument then give the colours, so zeros and the windings of the phase stay where the
 //! samples put them). Where one of the four is unsampled the nearest grid value is used, and
