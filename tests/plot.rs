@@ -60,22 +60,25 @@ fn demo_profiles() -> Vec<ProfileSeries> {
     series
 }
 
+/// ψ sampled on the grid re × im (None where `psi` gives none).
+fn sampled(
+    re: &[f64],
+    im: &[f64],
+    psi: impl Fn(Complex64) -> Option<Complex64>,
+) -> Vec<Vec<Option<Complex64>>> {
+    im.iter()
+        .map(|&y| re.iter().map(|&x| psi(Complex64::new(x, y))).collect())
+        .collect()
+}
+
 /// ψ(z) = (z − 1.5) e^{−z²/6} on a 41 × 9 grid, unsampled near a pole on the upper line.
 fn demo_strip() -> StripMap {
     let re = grid(-6.0, 6.0, 41);
     let im = grid(-2.0 * PI, 2.0 * PI, 9);
-    let values = im
-        .iter()
-        .map(|&y| {
-            re.iter()
-                .map(|&x| {
-                    let z = Complex64::new(x, y);
-                    let near_pole = (z - Complex64::new(0.0, 2.0 * PI)).norm() < 0.5;
-                    (!near_pole).then(|| (z - 1.5) * (-z * z / 6.0).exp())
-                })
-                .collect()
-        })
-        .collect();
+    let values = sampled(&re, &im, |z| {
+        let near_pole = (z - Complex64::new(0.0, 2.0 * PI)).norm() < 0.5;
+        (!near_pole).then(|| (z - 1.5) * (-z * z / 6.0).exp())
+    });
     StripMap {
         re,
         im,
@@ -350,17 +353,9 @@ fn heatmap_is_one_raster_image_a_panel_with_grey_where_unsampled() {
 /// zero making a far outlier of log₁₀|ψ|.
 fn realistic_strip() -> StripMap {
     let (re, im) = regwave::output::figures::strip_axes();
-    let values = im
-        .iter()
-        .map(|&y| {
-            re.iter()
-                .map(|&x| {
-                    let z = Complex64::new(x, y);
-                    Some((z - 1.6) * (z + 2.0) * (-z * z / 6.0).exp())
-                })
-                .collect()
-        })
-        .collect();
+    let values = sampled(&re, &im, |z| {
+        Some((z - 1.6) * (z + 2.0) * (-z * z / 6.0).exp())
+    });
     StripMap {
         re,
         im,

@@ -20,11 +20,10 @@
 //! None: a drawing convention.
 
 use super::axes::{
-    draw_axes, draw_grid, draw_legend, draw_title, legend_room, plot_rect, round_ticks, Axes,
+    draw_axes, draw_grid, draw_legend, draw_title, legend_room, plot_rect, round_labelled, Axes,
     Corner, Frame, Key, LegendEntry, LineLook, Obstacles,
 };
 use super::data::check_series;
-use super::numbers::tick_label;
 use super::style::series_style;
 use super::svg::{Stroke, Svg};
 use super::{PlotError, FIGURE_SIZE, INK};
@@ -93,10 +92,7 @@ pub fn agreement_plot(title: Option<&str>, bars: &[AgreementBars]) -> Result<Str
         x_desc: "level n",
         y_desc: "agreement digits",
         x_ticks: levels.iter().map(|&l| (l as f64, l.to_string())).collect(),
-        y_ticks: round_ticks(bottom, top, 6)
-            .into_iter()
-            .map(|v| (v, tick_label(&v)))
-            .collect(),
+        y_ticks: round_labelled(bottom, top, 6),
     };
     let area = (0.0, 0.0, FIGURE_SIZE.0 as f64, FIGURE_SIZE.1 as f64);
     let rect = plot_rect(area, title.is_some(), &axes.y_ticks, 0.0);

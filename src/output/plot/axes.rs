@@ -20,6 +20,7 @@
 //! # References
 //! None: a drawing convention.
 
+use super::numbers::tick_label;
 use super::png::text_width;
 use super::style::SeriesStyle;
 use super::svg::{Anchor, Font, Marker, Rgb, Stroke, Svg};
@@ -239,6 +240,14 @@ pub(super) fn round_ticks(lo: f64, hi: f64, count: usize) -> Vec<f64> {
     let first = (lo / step).ceil() as i64;
     let last = (hi / step).floor() as i64;
     (first..=last).map(|k| k as f64 * step).collect()
+}
+
+/// [`round_ticks`] with their labels.
+pub(super) fn round_labelled(lo: f64, hi: f64, count: usize) -> Vec<(f64, String)> {
+    round_ticks(lo, hi, count)
+        .into_iter()
+        .map(|v| (v, tick_label(&v)))
+        .collect()
 }
 
 /// The top of a value axis from `lo` to `hi` raised so that a legend of `rows` rows fits

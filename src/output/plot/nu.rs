@@ -23,8 +23,8 @@
 
 use super::axes::{
     draw_axes, draw_grid, draw_legend, draw_series, draw_title, font, grown, least_crowded,
-    plot_rect, round_ticks, text_box, tick_step, Axes, Corner, Frame, Key, LegendEntry, LineLook,
-    Obstacles,
+    plot_rect, round_labelled, text_box, tick_step, Axes, Corner, Frame, Key, LegendEntry,
+    LineLook, Obstacles,
 };
 use super::data::{check_series, extent, finite_runs, padded, LINE_POINTS};
 use super::numbers::{tick_label, typeset_minus};
@@ -74,10 +74,7 @@ pub fn nu_plot(title: Option<&str>, curve: &NuCurve) -> Result<String, PlotError
     let axes = Axes {
         x_desc: "ln a",
         y_desc: "ν(a)",
-        x_ticks: round_ticks(x.start, x.end, 7)
-            .into_iter()
-            .map(|v| (v, tick_label(&v)))
-            .collect(),
+        x_ticks: round_labelled(x.start, x.end, 7),
         y_ticks: integers
             .map(|k| (k as f64, tick_label(&(k as f64))))
             .collect(),

@@ -28,6 +28,8 @@ const EMBEDDED_FAMILY: &str = "DejaVu Sans";
 /// CSS pixels per inch: the SVG's nominal size becomes the page size.
 const PX_PER_INCH: f32 = 96.0;
 
+/// The same face as `png` loads, into svg2pdf's own (older) usvg font database, whose type
+/// differs from the one resvg uses: the two cannot share one database.
 fn embedded_fonts() -> Arc<usvg::fontdb::Database> {
     static FONTS: OnceLock<Arc<usvg::fontdb::Database>> = OnceLock::new();
     FONTS

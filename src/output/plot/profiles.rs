@@ -22,11 +22,11 @@
 
 use super::axes::{
     centred_baseline, draw_axes, draw_grid, draw_legend, draw_series, draw_title, font,
-    legend_room, plot_rect, round_ticks, Axes, Corner, Frame, Key, LegendEntry, LineLook,
+    legend_room, plot_rect, round_labelled, Axes, Corner, Frame, Key, LegendEntry, LineLook,
     Obstacles,
 };
 use super::data::{check_series, extent, finite_runs, padded, LINE_POINTS};
-use super::numbers::{significant, tick_label};
+use super::numbers::significant;
 use super::png::text_width;
 use super::style::series_style;
 use super::svg::{Anchor, Rgb, Stroke, Svg};
@@ -129,10 +129,7 @@ pub fn stacked_profiles(
     let axes = Axes {
         x_desc: "r",
         y_desc: "level n (offset ψₙ)",
-        x_ticks: round_ticks(x.start, x.end, 7)
-            .into_iter()
-            .map(|v| (v, tick_label(&v)))
-            .collect(),
+        x_ticks: round_labelled(x.start, x.end, 7),
         y_ticks: levels
             .iter()
             .map(|&l| (l, format!("n = {}", l.round())))

@@ -20,10 +20,10 @@
 
 use super::axes::{
     draw_axes, draw_grid, draw_legend, draw_series, draw_title, legend_room, plot_rect,
-    round_ticks, tick_step, Axes, Corner, Frame, Key, LegendEntry, LineLook, Obstacles,
+    round_labelled, tick_step, Axes, Corner, Frame, Key, LegendEntry, LineLook, Obstacles,
 };
 use super::data::{check_series, extent, finite_runs, padded, LINE_POINTS};
-use super::numbers::{power_of_ten, scientific, tick_label};
+use super::numbers::{power_of_ten, scientific};
 use super::style::series_style;
 use super::svg::{Stroke, Svg};
 use super::{PlotError, FIGURE_SIZE, FLOOR, LINE_WIDTH, RESIDUAL_CLAMP, THIN_WIDTH};
@@ -92,10 +92,7 @@ pub fn residual_plot(
     let axes = Axes {
         x_desc: "r",
         y_desc: "relative residual",
-        x_ticks: round_ticks(x.start, x.end, 7)
-            .into_iter()
-            .map(|v| (v, tick_label(&v)))
-            .collect(),
+        x_ticks: round_labelled(x.start, x.end, 7),
         y_ticks: decades.map(|e| (e as f64, power_of_ten(e))).collect(),
     };
     let area = (0.0, 0.0, FIGURE_SIZE.0 as f64, FIGURE_SIZE.1 as f64);

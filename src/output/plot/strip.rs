@@ -38,9 +38,9 @@
 //!   (the image format); RFC 4648 (2006), base64 (its embedding as a data URL).
 
 use super::axes::{
-    centred_baseline, draw_axes, draw_title, font, plot_rect, round_ticks, Axes, Frame, Rect,
+    centred_baseline, draw_axes, draw_title, font, plot_rect, round_labelled, Axes, Frame, Rect,
 };
-use super::numbers::{pi_label, tick_label};
+use super::numbers::pi_label;
 use super::png::text_width;
 use super::svg::{Anchor, Rgb, Stroke, Svg, WHITE};
 use super::{PlotError, INK, LABEL_SIZE, MARGIN, MISSING_CELL, STRIP_FIGURE_SIZE, TICK_SIZE};
@@ -234,10 +234,7 @@ fn modulus_panel(map: &StripMap) -> Result<Panel, PlotError> {
             stops: &SEQUENTIAL,
         },
         value: log_modulus,
-        ticks: round_ticks(range.0, range.1, 5)
-            .into_iter()
-            .map(|v| (v, tick_label(&v)))
-            .collect(),
+        ticks: round_labelled(range.0, range.1, 5),
         beyond: (first < range.0 || zeros, last > range.1),
     })
 }
@@ -388,10 +385,7 @@ fn draw_panel(
     let axes = Axes {
         x_desc: "Re r",
         y_desc: "Im r",
-        x_ticks: round_ticks(x.start, x.end, 7)
-            .into_iter()
-            .map(|v| (v, tick_label(&v)))
-            .collect(),
+        x_ticks: round_labelled(x.start, x.end, 7),
         y_ticks,
     };
     draw_axes(svg, &frame, &axes);

@@ -171,6 +171,15 @@ pub(super) fn num(v: f64) -> String {
     }
 }
 
+/// Fill and stroke attributes of a shape (no fill: "none").
+fn paint(fill: Option<Rgb>, stroke: Option<&Stroke>) -> String {
+    let fill = fill.map_or("none".to_string(), Rgb::hex);
+    match stroke {
+        Some(s) => format!("fill=\"{fill}\" {}", s.attributes()),
+        None => format!("fill=\"{fill}\""),
+    }
+}
+
 pub(super) fn escape(s: &str) -> String {
     s.replace('&', "&amp;")
         .replace('<', "&lt;")
@@ -257,15 +266,14 @@ impl Svg {
         fill: Option<Rgb>,
         stroke: Option<&Stroke>,
     ) {
-        let fill = fill.map_or("none".to_string(), Rgb::hex);
-        let stroke = stroke.map_or(String::new(), |s| format!(" {}", s.attributes()));
         let _ = writeln!(
             self.body,
-            "<rect x=\"{}\" y=\"{}\" width=\"{}\" height=\"{}\" fill=\"{fill}\"{stroke}/>",
+            "<rect x=\"{}\" y=\"{}\" width=\"{}\" height=\"{}\" {}/>",
             num(x),
             num(y),
             num(w.max(0.0)),
-            num(h.max(0.0))
+            num(h.max(0.0)),
+            paint(fill, stroke)
         );
     }
 
@@ -287,14 +295,13 @@ impl Svg {
         fill: Option<Rgb>,
         stroke: Option<&Stroke>,
     ) {
-        let fill = fill.map_or("none".to_string(), Rgb::hex);
-        let stroke = stroke.map_or(String::new(), |s| format!(" {}", s.attributes()));
         let _ = writeln!(
             self.body,
-            "<circle cx=\"{}\" cy=\"{}\" r=\"{}\" fill=\"{fill}\"{stroke}/>",
+            "<circle cx=\"{}\" cy=\"{}\" r=\"{}\" {}/>",
             num(x),
             num(y),
-            num(r)
+            num(r),
+            paint(fill, stroke)
         );
     }
 
