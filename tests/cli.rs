@@ -296,7 +296,7 @@ fn tour_writes_every_promised_file() {
         for (stem, axis) in [
             ("profiles", "r"),
             ("residual", "relative residual"),
-            ("nu", "log a"),
+            ("nu", "ln a"),
             ("strip", "Re r"),
         ] {
             let (labels, series) = parse_svg(&dir.join(format!("{stem}-{id}.svg")));

@@ -10,6 +10,11 @@
 //!   poles of ψ on the boundary lines.
 //! - Residuals are per grid point, relative to max|ψ| on the grid, with the working precision of
 //!   each level as the floor line when all levels share it.
+//! - Titles: [`FigureOptions::titles`] draws each figure's title into it; without, the figure
+//!   is untitled and its caption (which says everything the title did) goes under it in the
+//!   report, as journals set figures.
+//! - Files: every figure as SVG, and from the same document PNG and PDF on request
+//!   ([`FigureFormats`]).
 
 use crate::checks::audit::Audit;
 use crate::curve::laurent::Laurent;
@@ -21,6 +26,34 @@ use crate::output::plot::{
 };
 use crate::precision::unit_roundoff;
 use num_complex::Complex64;
+
+/// How the figures are drawn.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub struct FigureOptions {
+    /// Draw a title into each figure (else the caption alone names it).
+    pub titles: bool,
+}
+
+impl Default for FigureOptions {
+    fn default() -> Self {
+        FigureOptions { titles: true }
+    }
+}
+
+impl FigureOptions {
+    fn title(&self, title: String) -> Option<String> {
+        self.titles.then_some(title)
+    }
+}
+
+/// Which files [`figure_files_in`] writes besides each figure's SVG.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
+pub struct FigureFormats {
+    /// A PNG of [`PNG_WIDTH`] px.
+    pub png: bool,
+    /// A vector PDF with the embedded font.
+    pub pdf: bool,
+}
 
 /// One figure: its file stem, SVG document and a caption for reports.
 #[derive(Debug, Clone)]
@@ -42,11 +75,23 @@ fn real_label(rule: Option<i64>) -> String {
     }
 }
 
-/// Stacked profiles ψ_n(r) on R of several levels of one family.
+/// Stacked profiles ψ_n(r) on ℝ of several levels of one family, titled.
 ///
 /// # Errors
 /// See [`PlotError`].
 pub fn profiles(family: &str, levels: &[&Profile]) -> Result<Figure, PlotError> {
+    profiles_with(family, levels, &FigureOptions::default())
+}
+
+/// [`profiles`] drawn as `options` say.
+///
+/// # Errors
+/// See [`PlotError`].
+pub fn profiles_with(
+    family: &str,
+    levels: &[&Profile],
+    options: &FigureOptions,
+) -> Result<Figure, PlotError> {
     let rule = levels.first().and_then(|p| p.rule);
     let series: Vec<ProfileSeries> = levels
         .iter()
@@ -68,19 +113,37 @@ pub fn profiles(family: &str, levels: &[&Profile]) -> Result<Figure, PlotError> 
         .collect();
     Ok(Figure {
         name: format!("profiles-{}", file_id(family)),
-        svg: plot::stacked_profiles(family, &series, &real_label(rule))?,
+        svg: plot::stacked_profiles(
+            options
+                .title(format!("{family}: eigenfunctions on ℝ"))
+                .as_deref(),
+            &series,
+            &real_label(rule),
+        )?,
         caption: format!(
-            "{family}: eigenfunctions on R, level n drawn on the baseline n ({}, and ±|ψ|).",
+            "{family}: eigenfunctions on ℝ, level n drawn on the baseline n ({}, solid; ±|ψ|, dashed).",
             real_label(rule)
         ),
     })
 }
 
-/// The eigen-equation residual against r for several levels.
+/// The eigen-equation residual against r for several levels, titled.
 ///
 /// # Errors
 /// See [`PlotError`] (no level with a residual).
 pub fn residuals(family: &str, levels: &[&Profile]) -> Result<Figure, PlotError> {
+    residuals_with(family, levels, &FigureOptions::default())
+}
+
+/// [`residuals`] drawn as `options` say.
+///
+/// # Errors
+/// See [`PlotError`] (no level with a residual).
+pub fn residuals_with(
+    family: &str,
+    levels: &[&Profile],
+    options: &FigureOptions,
+) -> Result<Figure, PlotError> {
     let series: Vec<ResidualSeries> = levels
         .iter()
         .filter_map(|p| {
@@ -104,7 +167,13 @@ pub fn residuals(family: &str, levels: &[&Profile]) -> Result<Figure, PlotError>
         (!bits.is_empty() && bits.iter().all(|&b| b == bits[0])).then(|| unit_roundoff(bits[0]));
     Ok(Figure {
         name: format!("residual-{}", file_id(family)),
-        svg: plot::residual_plot(&format!("{family}: eigen-equation residual"), &series, floor)?,
+        svg: plot::residual_plot(
+            options
+                .title(format!("{family}: eigen-equation residual"))
+                .as_deref(),
+            &series,
+            floor,
+        )?,
         caption: format!(
             "{family}: |A ψ(r−2πi) + C ψ(r+2πi) − (B+a) ψ(r)| / max|ψ| per grid point, each value integrated along its own route{}.",
             if floor.is_some() { "; dashed: the unit roundoff of the working precision" } else { "" }
@@ -112,11 +181,19 @@ pub fn residuals(family: &str, levels: &[&Profile]) -> Result<Figure, PlotError>
     })
 }
 
-/// ν(a) against log a with the integer crossings and the independent eigenvalues.
+/// ν(a) against ln a with the integer crossings and the independent eigenvalues, titled.
 ///
 /// # Errors
 /// See [`PlotError`].
 pub fn nu(family: &str, audit: &Audit) -> Result<Figure, PlotError> {
+    nu_with(family, audit, &FigureOptions::default())
+}
+
+/// [`nu`] drawn as `options` say.
+///
+/// # Errors
+/// See [`PlotError`].
+pub fn nu_with(family: &str, audit: &Audit, options: &FigureOptions) -> Result<Figure, PlotError> {
     let curve = NuCurve {
         log_a: audit.scan.log_a.clone(),
         nu: audit.scan.nu.clone(),
@@ -129,25 +206,42 @@ pub fn nu(family: &str, audit: &Audit) -> Result<Figure, PlotError> {
     };
     Ok(Figure {
         name: format!("nu-{}", file_id(family)),
-        svg: plot::nu_plot(family, &curve)?,
+        svg: plot::nu_plot(
+            options
+                .title(format!("{family}: higher normal function ν(a)"))
+                .as_deref(),
+            &curve,
+        )?,
         caption: format!(
-            "{family}: the higher normal function ν(a); dots where ν is an integer (attractor moduli), ticks at the independent eigenvalues."
+            "{family}: the higher normal function ν(a) against ln a; dots where ν is an integer (attractor moduli, level n at ν = n + 1), ticks at the independent eigenvalues."
         ),
     })
 }
 
-/// Agreement digits of the attractor moduli with the independent spectrum, per level and family.
+/// Agreement digits of the attractor moduli with the independent spectrum, per level and
+/// family, titled.
 ///
 /// # Errors
 /// See [`PlotError`].
 pub fn agreement(audits: &[(&str, &Audit)]) -> Result<Figure, PlotError> {
+    agreement_with(audits, &FigureOptions::default())
+}
+
+/// [`agreement`] drawn as `options` say.
+///
+/// # Errors
+/// See [`PlotError`].
+pub fn agreement_with(
+    audits: &[(&str, &Audit)],
+    options: &FigureOptions,
+) -> Result<Figure, PlotError> {
     let bars: Vec<AgreementBars> = audits
         .iter()
         .map(|(family, a)| AgreementBars {
             family: family.to_string(),
             levels: a.levels.iter().map(|l| l.level).collect(),
             digits: a.levels.iter().map(|l| l.agreement_digits).collect(),
-            cap: a.levels.iter().map(|l| l.agreement_cap).fold(0.0, f64::max),
+            caps: a.levels.iter().map(|l| l.agreement_cap).collect(),
         })
         .collect();
     let names: Vec<&str> = audits.iter().map(|a| a.0).collect();
@@ -157,15 +251,42 @@ pub fn agreement(audits: &[(&str, &Audit)]) -> Result<Figure, PlotError> {
         } else {
             "agreement".into()
         },
-        svg: plot::agreement_plot(&bars)?,
+        svg: plot::agreement_plot(
+            options
+                .title("agreement with the independent spectrum".into())
+                .as_deref(),
+            &bars,
+        )?,
         caption: format!(
-            "Digits on which attractor moduli and independent eigenvalues agree ({}); dashed: what the spectrum's error estimate supports.",
-            names.join(", ")
+            "Digits on which attractor moduli and independent eigenvalues agree, per level n ({}); dashed over each bar: the digits the spectrum's error estimate supports at that level.{}",
+            names.join(", "),
+            if agreement_limited_by_spectrum(audits) {
+                " Every bar reaches its cap: the comparison is limited by the spectrum's error estimate, not by the attractor moduli."
+            } else {
+                ""
+            }
         ),
     })
 }
 
-/// |ψ| and arg ψ over the strip |Im r| ≤ 2π from sampled lines (see [`crate::eigenfunction::profile::strip_map`]).
+/// Agreement digits closer than this to their cap count as at the cap.
+const AT_CAP: f64 = 0.05;
+
+/// Whether every compared level agrees to its cap: the agreement figure then shows only the
+/// spectrum's error estimate (a report may leave it out and say so).
+pub fn agreement_limited_by_spectrum(audits: &[(&str, &Audit)]) -> bool {
+    let compared: Vec<_> = audits
+        .iter()
+        .flat_map(|(_, a)| &a.levels)
+        .filter(|l| l.agreement_digits.is_finite() && l.agreement_cap.is_finite())
+        .collect();
+    !compared.is_empty()
+        && compared
+            .iter()
+            .all(|l| l.agreement_digits >= l.agreement_cap - AT_CAP)
+}
+
+/// |ψ| and arg ψ over the strip |Im r| ≤ 2π from sampled lines (see [`crate::eigenfunction::profile::strip_map`]), titled.
 ///
 /// # Errors
 /// See [`PlotError`].
@@ -175,6 +296,20 @@ pub fn strip(
     re: &[f64],
     im: &[f64],
     values: Vec<Vec<Option<Complex64>>>,
+) -> Result<Figure, PlotError> {
+    strip_with(family, p, (re, im), values, &FigureOptions::default())
+}
+
+/// [`strip`] drawn as `options` say; the grid is (Re r, Im r).
+///
+/// # Errors
+/// See [`PlotError`].
+pub fn strip_with(
+    family: &str,
+    p: &Profile,
+    (re, im): (&[f64], &[f64]),
+    values: Vec<Vec<Option<Complex64>>>,
+    options: &FigureOptions,
 ) -> Result<Figure, PlotError> {
     let two_pi = 2.0 * std::f64::consts::PI;
     let branch_points = p
@@ -193,9 +328,14 @@ pub fn strip(
     let level = p.level.map(|n| format!(", n = {n}")).unwrap_or_default();
     Ok(Figure {
         name: format!("strip-{}", file_id(family)),
-        svg: plot::strip_heatmap(&format!("{family}{level}: ψ over the strip"), &map)?,
+        svg: plot::strip_heatmap(
+            options
+                .title(format!("{family}{level}: ψ over the strip"))
+                .as_deref(),
+            &map,
+        )?,
         caption: format!(
-            "{family}{level}: log₁₀|ψ| and arg ψ on |Im r| ≤ 2π (double precision); crosses: branch points, circles: poles of ψ."
+            "{family}{level}: log₁₀|ψ| (colours clipped at its 2nd and 98th percentiles) and arg ψ on |Im r| ≤ 2π (double precision, interpolated between grid values); crosses: branch points, circles: poles of ψ."
         ),
     })
 }
@@ -227,7 +367,7 @@ pub enum FiguresError {
 }
 
 /// The per-family figures of an audit: profiles, residuals, ν(a), and the strip map of the
-/// middle audited level.
+/// middle audited level; titled.
 ///
 /// # Errors
 /// See [`FiguresError`].
@@ -236,15 +376,28 @@ pub fn family_figures(
     laurent: &Laurent,
     audit: &Audit,
 ) -> Result<Vec<Figure>, FiguresError> {
+    family_figures_with(family, laurent, audit, &FigureOptions::default())
+}
+
+/// [`family_figures`] drawn as `options` say.
+///
+/// # Errors
+/// See [`FiguresError`].
+pub fn family_figures_with(
+    family: &str,
+    laurent: &Laurent,
+    audit: &Audit,
+    options: &FigureOptions,
+) -> Result<Vec<Figure>, FiguresError> {
     let profiles: Vec<&Profile> = audit.levels.iter().map(|l| &l.profile).collect();
     let chosen = &audit.levels[audit.levels.len() / 2].profile;
     let (re, im) = strip_axes();
     let values = profile::strip_map(laurent, chosen, &re, &im)?;
     Ok(vec![
-        self::profiles(family, &profiles)?,
-        residuals(family, &profiles)?,
-        nu(family, audit)?,
-        strip(family, chosen, &re, &im, values)?,
+        profiles_with(family, &profiles, options)?,
+        residuals_with(family, &profiles, options)?,
+        nu_with(family, audit, options)?,
+        strip_with(family, chosen, (&re, &im), values, options)?,
     ])
 }
 
@@ -253,11 +406,26 @@ pub fn family_figures(
 /// # Errors
 /// See [`PlotError`] (the PNG rendering).
 pub fn figure_files(figures: &[Figure], png: bool) -> Result<Vec<OutputFile>, PlotError> {
+    figure_files_in(figures, &FigureFormats { png, pdf: false })
+}
+
+/// The SVG files of the figures, and from the same documents PNG and PDF files as `formats`
+/// asks ("name.svg", "name.png", "name.pdf" for each figure, in that order).
+///
+/// # Errors
+/// See [`PlotError`] (the PNG rendering or the PDF conversion).
+pub fn figure_files_in(
+    figures: &[Figure],
+    formats: &FigureFormats,
+) -> Result<Vec<OutputFile>, PlotError> {
     let mut out = Vec::new();
     for f in figures {
         out.push((format!("{}.svg", f.name), f.svg.clone().into_bytes()));
-        if png {
+        if formats.png {
             out.push((format!("{}.png", f.name), plot::to_png(&f.svg, PNG_WIDTH)?));
+        }
+        if formats.pdf {
+            out.push((format!("{}.pdf", f.name), plot::to_pdf(&f.svg)?));
         }
     }
     Ok(out)

@@ -1,14 +1,17 @@
 //! Agreement digits: per level, the digits to which the attractor moduli agree with the
-//! independent spectrum, as grouped bars with one colour per family.
+//! independent spectrum, as grouped bars with one style per family, each bar under its own cap.
 //!
 //! # Method
 //! Within the group of a level each family has a bar of equal width (the group fills 0.8 of
-//! the level spacing, with a hairline between bars); a dashed line marks each distinct
-//! precision cap, labelled once with at most one decimal.
+//! the level spacing, with a gap between bars), filled with the family's series colour (the
+//! palette's lightness steps keep the families apart in greyscale). Over each bar a dashed line
+//! a little wider than the bar marks the cap of that level and family: the digits that the spectrum's
+//! error estimate supports there. A bar reaching its cap is limited by the spectrum, not by the
+//! attractor modulus.
 //!
 //! # Accuracy
-//! Bar heights are the given digit counts, rounded to drawing pixels; `tests/plot.rs` checks one
-//! bar per finite digit count and the legend.
+//! Bar heights are the given digit counts; `tests/plot.rs` checks one bar per finite digit
+//! count, one cap per finite cap, and the legend.
 //!
 //! # Errors
 //! [`PlotError::NoSeries`], [`PlotError::LengthMismatch`], [`PlotError::TooFewPoints`].
@@ -17,14 +20,13 @@
 //! None: a drawing convention.
 
 use super::axes::{
-    chart_on, draw_axes, draw_legend, draw_reference_level, legend_room, render_svg, series_colour,
-    Axes, Chart, Ticked,
+    draw_axes, draw_grid, draw_legend, draw_title, legend_room, plot_rect, round_labelled, Axes,
+    Corner, Frame, Key, LegendEntry, LineLook, Obstacles,
 };
 use super::data::check_series;
-use super::numbers::tick_label;
-use super::{px, PlotError, FIGURE_SIZE, LEGEND_KEY};
-use plotters::coord::types::RangedCoordf64;
-use plotters::prelude::*;
+use super::style::series_style;
+use super::svg::{Stroke, Svg};
+use super::{PlotError, FIGURE_SIZE, INK};
 
 /// Digits of agreement between the attractor moduli and the independent spectrum, per level,
 /// for one family.
@@ -36,25 +38,33 @@ pub struct AgreementBars {
     pub levels: Vec<usize>,
     /// Agreement digits per level; NaN where not compared (no bar).
     pub digits: Vec<f64>,
-    /// The precision that bounds the comparison, in digits (dashed line).
-    pub cap: f64,
+    /// Per level, the digits the comparison supports (a dashed cap over the bar; NaN: none).
+    pub caps: Vec<f64>,
 }
 
 impl AgreementBars {
     fn check(&self) -> Result<(), PlotError> {
         let plottable = self.digits.iter().filter(|d| d.is_finite()).count();
+        check_series(&self.family, (self.levels.len(), self.caps.len()), 1, 1)?;
         let lengths = (self.levels.len(), self.digits.len());
         check_series(&self.family, lengths, plottable, 1)
     }
 }
 
 const GROUP_WIDTH: f64 = 0.8;
+/// The caps are dashed finely: they are short, about as wide as a bar.
+const CAP_DASH: &[f64] = &[4.0, 2.5];
+const CAP_OVERHANG: f64 = 3.0;
+const CAP_WIDTH: f64 = 2.0;
+
+/// Legend entry of the caps.
+pub(super) const CAP_LABEL: &str = "cap: spectrum's error estimate";
 
 /// Agreement digits per level, grouped by family (see the module documentation).
 ///
 /// # Errors
 /// No families; a family with mismatched lengths or no finite digit count.
-pub fn agreement_plot(bars: &[AgreementBars]) -> Result<String, PlotError> {
+pub fn agreement_plot(title: Option<&str>, bars: &[AgreementBars]) -> Result<String, PlotError> {
     if bars.is_empty() {
         return Err(PlotError::NoSeries {
             figure: "agreement plot",
@@ -65,97 +75,97 @@ pub fn agreement_plot(bars: &[AgreementBars]) -> Result<String, PlotError> {
     levels.sort_unstable();
     levels.dedup();
     let (first, last) = (levels[0] as f64, levels[levels.len() - 1] as f64);
-    let x = Ticked::new(
-        (first - 0.6)..(last + 0.6),
-        levels.iter().map(|&l| l as f64),
-    );
-    let finite = |v: &f64| v.is_finite();
     let all = bars
         .iter()
-        .flat_map(|b| b.digits.iter().copied().chain([b.cap]));
-    let highest = all.clone().filter(finite).fold(1.0, f64::max);
-    let bottom = all.filter(finite).fold(0.0, f64::min) * 1.05;
-    let caps = distinct_caps(bars).len();
-    let top = legend_room(bottom, 1.05 * highest, bars.len() + caps);
-    render_svg(FIGURE_SIZE, |root| {
-        let mut chart = chart_on(
-            root,
-            "agreement with the independent spectrum",
-            x,
-            bottom..top,
-        )?;
-        let level_tick = |v: &f64| format!("{}", v.round());
-        draw_axes(
-            &mut chart,
-            &Axes {
-                x_desc: "level n",
-                y_desc: "agreement digits",
-                x_ticks: &level_tick,
-                y_ticks: &tick_label,
-            },
-        )?;
-        for (i, family) in bars.iter().enumerate() {
-            draw_family_bars(&mut chart, family, i, bars.len())?;
-        }
-        draw_caps(&mut chart, bars)?;
-        draw_legend(&mut chart, SeriesLabelPosition::UpperRight)
-    })
+        .flat_map(|b| b.digits.iter().chain(&b.caps).copied())
+        .filter(|v| v.is_finite());
+    let highest = all.clone().fold(1.0, f64::max);
+    let bottom = all.fold(0.0, f64::min) * 1.05;
+    let has_caps = bars.iter().any(|b| b.caps.iter().any(|c| c.is_finite()));
+    let top = legend_room(
+        bottom,
+        1.05 * highest,
+        bars.len() + usize::from(has_caps),
+        title.is_some(),
+    );
+    let axes = Axes {
+        x_desc: "level n",
+        y_desc: "agreement digits",
+        x_ticks: levels.iter().map(|&l| (l as f64, l.to_string())).collect(),
+        y_ticks: round_labelled(bottom, top, 6),
+    };
+    let area = (0.0, 0.0, FIGURE_SIZE.0 as f64, FIGURE_SIZE.1 as f64);
+    let rect = plot_rect(area, title.is_some(), &axes.y_ticks, 0.0);
+    let frame = Frame::new(rect, (first - 0.6)..(last + 0.6), bottom..top);
+    let mut svg = Svg::new(FIGURE_SIZE);
+    if let Some(title) = title {
+        draw_title(&mut svg, area, title);
+    }
+    draw_grid(&mut svg, &frame, &axes);
+    let mut obstacles = Obstacles::default();
+    let cap_stroke = Stroke::dashed(INK, CAP_WIDTH, CAP_DASH);
+    let mut legend = Vec::new();
+    for (i, family) in bars.iter().enumerate() {
+        draw_family(
+            &mut svg,
+            &frame,
+            family,
+            (i, bars.len()),
+            &cap_stroke,
+            &mut obstacles,
+        );
+        legend.push(LegendEntry {
+            label: family.family.clone(),
+            key: Key::Bar(series_style(i).colour),
+        });
+    }
+    if has_caps {
+        legend.push(LegendEntry {
+            label: CAP_LABEL.into(),
+            key: Key::Line(LineLook::plain(cap_stroke)),
+        });
+    }
+    draw_axes(&mut svg, &frame, &axes);
+    let corners = [Corner::UpperRight, Corner::UpperLeft];
+    draw_legend(&mut svg, &frame, &legend, &corners, &obstacles);
+    Ok(svg.finish())
 }
 
-fn draw_family_bars(
-    chart: &mut Chart<'_, '_, Ticked, RangedCoordf64>,
+/// The bars of one family and the cap over each.
+fn draw_family(
+    svg: &mut Svg,
+    frame: &Frame,
     family: &AgreementBars,
-    index: usize,
-    families: usize,
-) -> Result<(), PlotError> {
-    let colour = series_colour(index);
+    (index, families): (usize, usize),
+    cap_stroke: &Stroke,
+    obstacles: &mut Obstacles,
+) {
+    let colour = series_style(index).colour;
     let width = GROUP_WIDTH / families as f64;
     let left = -0.5 * GROUP_WIDTH + index as f64 * width;
-    let rects = family
-        .levels
-        .iter()
-        .zip(&family.digits)
-        .filter(|(_, d)| d.is_finite())
-        .map(|(&n, &d)| {
-            let x0 = n as f64 + left;
-            // A hairline of white between neighbouring bars keeps the groups legible.
-            Rectangle::new([(x0 + 0.01, 0.0), (x0 + width - 0.01, d)], colour.filled())
-        });
-    chart
-        .draw_series(rects)?
-        .label(family.family.as_str())
-        .legend(move |(x, y)| {
-            let half = px(6) as i32;
-            Rectangle::new([(x, y - half), (x + LEGEND_KEY, y + half)], colour.filled())
-        });
-    Ok(())
-}
-
-fn distinct_caps(bars: &[AgreementBars]) -> Vec<f64> {
-    let mut caps: Vec<f64> = bars
-        .iter()
-        .map(|b| b.cap)
-        .filter(|c| c.is_finite())
-        .collect();
-    caps.sort_by(f64::total_cmp);
-    caps.dedup();
-    caps
-}
-
-/// One dashed line per distinct cap, labelled once.
-fn draw_caps<'a, 'b: 'a>(
-    chart: &mut Chart<'a, 'b, Ticked, RangedCoordf64>,
-    bars: &[AgreementBars],
-) -> Result<(), PlotError> {
-    for cap in distinct_caps(bars) {
-        // One decimal at most: the cap is a digit count, not a measured value to quote finely.
-        let shown = if (cap - cap.round()).abs() < 0.05 {
-            format!("{:.0}", cap.round())
-        } else {
-            format!("{cap:.1}")
-        };
-        let label = format!("cap {shown} digits");
-        draw_reference_level(chart, cap, &label)?;
+    let zero = frame.y.at(0.0);
+    svg.open_group("series", Some(&family.family));
+    for ((&n, &d), &cap) in family.levels.iter().zip(&family.digits).zip(&family.caps) {
+        // A gap of 0.02 level spacings between neighbouring bars keeps the groups legible.
+        let (x0, x1) = (
+            frame.x.at(n as f64 + left + 0.01),
+            frame.x.at(n as f64 + left + width - 0.01),
+        );
+        if d.is_finite() {
+            let y = frame.y.at(d);
+            let bar = (x0, y.min(zero), x1 - x0, (y - zero).abs());
+            svg.rect(bar, Some(colour), None);
+            obstacles.add_box(bar);
+        }
+        if cap.is_finite() {
+            // A lid a little wider than the bar: seen even where the bar reaches it.
+            let y = frame.y.at(cap);
+            let (c0, c1) = (x0 - CAP_OVERHANG, x1 + CAP_OVERHANG);
+            svg.open_group("cap", None);
+            svg.polyline(&[(c0, y), (c1, y)], cap_stroke);
+            svg.close_group();
+            obstacles.add_box((c0, y - 2.0, c1 - c0, 4.0));
+        }
     }
-    Ok(())
+    svg.close_group();
 }

@@ -1,56 +1,71 @@
-//! Figures of the eigenfunctions and their checks, as SVG documents and PNG bytes. Pure drawing:
-//! every function takes plain data and returns the document; the binary writes the files.
+//! Figures of the eigenfunctions and their checks, as SVG documents, PNG bytes and PDF bytes.
+//! Pure drawing: every function takes plain data and returns the document; the binary writes
+//! the files.
 //!
 //! # Figures
-//! - [`stacked_profiles`]: ψₙ(r) on R for several levels. Horizontal axis r; level n is drawn
-//!   on the baseline y = n: the real part of the phase-fixed ψₙ as a line and ±|ψₙ| as a thin
-//!   envelope, both scaled so that max|ψₙ| reaches [`PROFILE_HALF_HEIGHT`] above the baseline.
-//!   The vertical tick labels name the levels ("n = 0", …), a label per curve gives its modulus
-//!   aₙ (six significant digits).
+//! - [`stacked_profiles`]: ψₙ(r) on ℝ for several levels. Horizontal axis r; level n is drawn
+//!   on the baseline y = n: the real part of the phase-fixed ψₙ as a solid line and ±|ψₙ| as a
+//!   thin dashed envelope, both scaled so that max|ψₙ| reaches [`PROFILE_HALF_HEIGHT`] above
+//!   the baseline. The vertical tick labels name the levels ("n = 0", …), a label per curve
+//!   gives its modulus aₙ (six significant digits), placed where it meets no curve.
 //! - [`strip_heatmap`]: ψ on the strip |Im r| ≤ 2π, two panels stacked: log₁₀|ψ| on a
-//!   sequential scale (ink blue → sea green → sand) and arg ψ on a cyclic scale (indigo at ±π,
-//!   teal at −π/2, pale sand at 0, brick at π/2), each with a colour bar. Horizontal axis Re r,
-//!   vertical axis Im r from −2π to 2π with ticks at the multiples of π. Each grid value fills
-//!   the cell reaching half way to its neighbours; cells without a sampled value are neutral
-//!   grey. Branch points are marked by crosses, poles by open circles.
+//!   sequential scale (ink blue → sea green → sand) clipped to the 2nd–98th percentile of the
+//!   sampled values, and arg ψ on a cyclic scale (indigo at ±π, teal at −π/2, pale sand at 0,
+//!   brick at π/2), each with a colour bar. Each panel is one embedded PNG image. Horizontal
+//!   axis Re r, vertical axis Im r from −2π to 2π with ticks at the multiples of π. Branch
+//!   points are marked by crosses, poles by open circles, with a key.
 //! - [`residual_plot`]: eigen-equation residual against r on a logarithmic axis (powers of ten),
-//!   one colour per series, an optional dashed horizontal line at the precision floor.
-//! - [`nu_plot`]: the higher normal function ν(a) against log a, faint lines at the integers,
-//!   the attractor crossings ν = k as filled dots, and the independently computed eigenvalues
-//!   as short ticks on the horizontal axis (they should sit under the dots).
+//!   one style per series (colour, dash pattern and marker), an optional dashed horizontal line
+//!   at the precision floor.
+//! - [`nu_plot`]: the higher normal function ν(a) against ln a, faint lines at the integers,
+//!   the attractor crossings ν = n + 1 as filled dots labelled by the level n, and the
+//!   independently computed eigenvalues as short ticks on the horizontal axis (they should sit
+//!   under the dots).
 //! - [`agreement_plot`]: agreement digits with the independent spectrum per level, grouped
-//!   bars with one colour per family, and a dashed line at each precision cap.
+//!   bars with one style per family, and over each bar a dashed cap: the digits that the
+//!   spectrum's error estimate supports at that level.
+//!
+//! Every figure takes an optional title: journals set titles as captions, so `None` leaves the
+//! figure untitled (the figure's caption then carries what the title said).
 //!
 //! # Layout
 //! One private submodule per figure (`profiles`, `strip`, `residual`, `nu`, `agreement`), the
-//! shared chart machinery (`axes`), numbers as text (`numbers`), data checks and ranges
-//! (`data`), and rasterization (`png`); their public items are re-exported here.
+//! SVG writer (`svg`), the series styles (`style`), the shared chart machinery (`axes`),
+//! numbers as text (`numbers`), data checks and ranges (`data`), rasterization (`png`) and
+//! conversion to PDF (`pdf`); their public items are re-exported here.
 //!
 //! # Conventions
 //! Single panels are [`FIGURE_SIZE`] (640 × 420 px), the strip map [`STRIP_FIGURE_SIZE`]; text is
-//! at least 14 px, lines at least 1.5 px wide, on a white background. Text is emitted as SVG
-//! `<text>` in the generic `sans-serif` family, minus signs as U+2212.
+//! at least 14 px, data lines 2 px wide, on a white background. Text is emitted as SVG
+//! `<text>` in the generic `sans-serif` family, minus signs as U+2212, the sets of integers
+//! and reals as ℤ and ℝ, the natural logarithm as ln. Series are told apart by colour,
+//! lightness, dash pattern and marker together ([`series_style`]: the palette keeps its
+//! colours apart in greyscale and under the common colour-vision deficiencies; the module
+//! `style` says how it was chosen); a legend key is drawn by the same code, with the same
+//! stroke, dash and marker, as the series it names.
 //!
-//! # PNG
+//! # PNG and PDF
 //! [`to_png`] rasterizes any of these SVG documents with `resvg` (pure Rust) at a requested
-//! width. Text is set in DejaVu Sans, embedded through the `dejavu` crate (Bitstream Vera font
-//! licence; DejaVu changes are in the public domain; the licence text ships with that crate),
-//! so no system font or font library is needed.
+//! width; [`to_pdf`] converts them to vector PDF with `svg2pdf`. Text is set in DejaVu Sans,
+//! embedded through the `dejavu` crate (Bitstream Vera font licence; DejaVu changes are in the
+//! public domain; the licence text ships with that crate), so no system font or font library is
+//! needed.
 //!
 //! # Example
 //! ```
-//! use regwave::output::plot::{agreement_plot, to_png, AgreementBars};
+//! use regwave::output::plot::{agreement_plot, to_pdf, to_png, AgreementBars};
 //!
 //! let bars = [AgreementBars {
 //!     family: "F0".into(),
 //!     levels: vec![0, 1, 2],
 //!     digits: vec![29.4, 28.9, 28.1],
-//!     cap: 30.0,
+//!     caps: vec![30.0, 29.5, 29.0],
 //! }];
-//! let svg = agreement_plot(&bars)?;
+//! let svg = agreement_plot(None, &bars)?;
 //! assert!(svg.contains("agreement digits"));
 //! let png = to_png(&svg, 1280)?;
 //! assert_eq!(&png[1..4], b"PNG");
+//! assert!(to_pdf(&svg)?.starts_with(b"%PDF-"));
 //! # Ok::<(), regwave::output::plot::PlotError>(())
 //! ```
 //!
@@ -65,19 +80,24 @@ mod axes;
 mod data;
 mod nu;
 mod numbers;
+mod pdf;
 mod png;
 mod profiles;
 mod residual;
 mod strip;
+mod style;
+mod svg;
 
 pub use agreement::{agreement_plot, AgreementBars};
 pub use nu::{nu_plot, NuCurve};
+pub use pdf::to_pdf;
 pub use png::to_png;
 pub use profiles::{stacked_profiles, ProfileSeries};
 pub use residual::{residual_plot, ResidualSeries};
-pub use strip::{strip_heatmap, StripMap};
+pub use strip::{strip_heatmap, StripMap, PERCENTILES};
+pub use style::{series_style, SeriesStyle};
+pub use svg::{Marker, Rgb};
 
-use plotters::prelude::{DrawingAreaErrorKind, RGBColor};
 use thiserror::Error;
 
 /// Size in pixels of the single-panel figures.
@@ -91,7 +111,7 @@ pub const RESIDUAL_CLAMP: f64 = 1e-60;
 /// Longest side of a PNG [`to_png`] renders (the pixmap is held in memory, four bytes a pixel).
 pub const MAX_PNG_SIDE: u32 = 8192;
 /// Fill of heat-map cells without a sampled value.
-pub const MISSING_CELL: RGBColor = RGBColor(0xa8, 0xa8, 0xa8);
+pub const MISSING_CELL: Rgb = Rgb(0xa8, 0xa8, 0xa8);
 
 /// Failed preconditions of the figures and of rasterization.
 #[derive(Debug, Clone, PartialEq, Error)]
@@ -142,9 +162,9 @@ pub enum PlotError {
     /// Every heat-map cell is unsampled.
     #[error("heat map: no cell holds a sampled finite value")]
     NoSampledValue,
-    /// plotters reported a failure while drawing.
-    #[error("drawing failed: {0}")]
-    Drawing(String),
+    /// The raster image of a heat map could not be encoded.
+    #[error("heat-map image encoding failed: {0}")]
+    ImageEncode(String),
     /// The document given to [`to_png`] is not SVG that resvg can read.
     #[error("the SVG document could not be read: {0}")]
     SvgParse(String),
@@ -154,58 +174,33 @@ pub enum PlotError {
     /// The PNG encoder failed.
     #[error("PNG encoding failed: {0}")]
     PngEncode(String),
-}
-
-impl<E: std::error::Error + Send + Sync> From<DrawingAreaErrorKind<E>> for PlotError {
-    fn from(e: DrawingAreaErrorKind<E>) -> Self {
-        PlotError::Drawing(e.to_string())
-    }
+    /// svg2pdf could not convert the document.
+    #[error("PDF conversion failed: {0}")]
+    PdfConversion(String),
 }
 
 // ---------------------------------------------------------------------------------------------
-// Look: palette, fonts, sizes.
+// Look: palette, fonts, sizes (nominal px).
 
-const INK: RGBColor = RGBColor(0x23, 0x27, 0x33);
-const GRID: RGBColor = RGBColor(0xe2, 0xe4, 0xe8);
-const FLOOR: RGBColor = RGBColor(0x6b, 0x6f, 0x7a);
-
-/// Series colours: distinguishable, of similar weight on white, none of them grey.
-const SERIES: [RGBColor; 7] = [
-    RGBColor(0x1f, 0x5f, 0x8b), // deep sea blue
-    RGBColor(0xc2, 0x5b, 0x2a), // burnt orange
-    RGBColor(0x3c, 0x8d, 0x5a), // moss green
-    RGBColor(0x8a, 0x3b, 0x7e), // plum
-    RGBColor(0xb8, 0x93, 0x1c), // ochre
-    RGBColor(0x2a, 0x9d, 0xa4), // lagoon
-    RGBColor(0x7a, 0x4a, 0x2e), // walnut
-];
+const INK: Rgb = Rgb(0x23, 0x27, 0x33);
+const GRID: Rgb = Rgb(0xe2, 0xe4, 0xe8);
+const FLOOR: Rgb = Rgb(0x6b, 0x6f, 0x7a);
 
 const FONT: &str = "sans-serif";
 
-// plotters places everything at whole pixels: the figures are drawn at SUPERSAMPLE times their
-// nominal size and the SVG viewBox maps that back, so lines and markers sit on half pixels.
-// Every length below is in drawing pixels (nominal pixels × SUPERSAMPLE).
-const SUPERSAMPLE: u32 = 2;
-
-const fn px(nominal: u32) -> u32 {
-    nominal * SUPERSAMPLE
-}
-
-// plotters writes size / 1.24 into the SVG: these give 14.5, 16.1 and 17.7 nominal px.
-const TICK_SIZE: f64 = 18.0 * SUPERSAMPLE as f64;
-const LABEL_SIZE: f64 = 20.0 * SUPERSAMPLE as f64;
-const TITLE_SIZE: f64 = 22.0 * SUPERSAMPLE as f64;
-/// Data lines: 2 nominal px.
-const LINE_WIDTH: u32 = 4;
-/// Envelopes, reference and integer lines: 1.5 nominal px.
-const THIN_WIDTH: u32 = 3;
-const MARKER_RADIUS: u32 = px(5);
-const LEGEND_KEY: i32 = px(22) as i32;
-const MARGIN: u32 = px(14);
-const X_LABEL_AREA: u32 = px(52);
-const Y_LABEL_AREA: u32 = px(78);
+const TICK_SIZE: f64 = 14.5;
+const LABEL_SIZE: f64 = 16.0;
+const TITLE_SIZE: f64 = 17.5;
+/// Data lines.
+const LINE_WIDTH: f64 = 2.0;
+/// Envelopes, reference and integer lines.
+const THIN_WIDTH: f64 = 1.5;
+const MARKER_RADIUS: f64 = 4.5;
+const LEGEND_KEY: f64 = 30.0;
+const MARGIN: f64 = 14.0;
+const X_LABEL_AREA: f64 = 58.0;
 /// Height of one legend row and the legend's padding, for the head room above the data.
-const LEGEND_ROW: u32 = px(23);
-const LEGEND_PADDING: u32 = px(20);
-/// Nominal plot height of a single panel: the figure less title, tick labels and margins.
-const PLOT_HEIGHT: u32 = px(FIGURE_SIZE.1 - 130);
+const LEGEND_ROW: f64 = 22.0;
+const LEGEND_PADDING: f64 = 8.0;
+/// Plot height of an untitled single panel: the figure less tick labels and margins.
+const PLOT_HEIGHT: f64 = FIGURE_SIZE.1 as f64 - X_LABEL_AREA - MARGIN;

@@ -59,14 +59,19 @@ pub(super) fn power_of_ten(exponent: i32) -> String {
     format!("10{sign}{digits}")
 }
 
-/// A positive value as a power of ten ("10⁻⁴⁰") when it is one, else with three digits.
+/// A positive value as a power of ten ("10⁻⁴⁰") when it is one, else with three digits, in
+/// the same notation as the decades of the axis ("1.11 × 10⁻¹⁶") outside 10⁻⁴..10⁹.
 pub(super) fn scientific(x: f64) -> String {
     let exponent = x.log10().round();
     if (x.log10() - exponent).abs() < 1e-9 {
-        power_of_ten(exponent as i32)
-    } else {
-        significant(x, 3)
+        return power_of_ten(exponent as i32);
     }
+    let magnitude = x.abs().log10().floor() as i32;
+    if (-4..9).contains(&magnitude) {
+        return significant(x, 3);
+    }
+    let mantissa = x / 10f64.powi(magnitude);
+    format!("{} × {}", significant(mantissa, 3), power_of_ten(magnitude))
 }
 
 /// Labels of the multiples of π/2 between −2π and 2π.

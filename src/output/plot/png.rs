@@ -17,9 +17,11 @@
 //! - DejaVu Sans (Bitstream Vera font licence; DejaVu changes in the public domain; the licence
 //!   text ships with the `dejavu` crate). See `docs/REFERENCES.md`.
 
-use super::{PlotError, MAX_PNG_SIDE};
+use super::svg::escape;
+use super::{PlotError, FONT, MAX_PNG_SIDE};
 use resvg::{tiny_skia, usvg};
-use std::sync::{Arc, OnceLock};
+use std::collections::HashMap;
+use std::sync::{Arc, Mutex, OnceLock};
 
 const EMBEDDED_FAMILY: &str = "DejaVu Sans";
 
@@ -40,6 +42,40 @@ fn embedded_fonts() -> Arc<usvg::fontdb::Database> {
         .clone()
 }
 
+fn options() -> usvg::Options<'static> {
+    usvg::Options {
+        font_family: EMBEDDED_FAMILY.to_string(),
+        fontdb: embedded_fonts(),
+        ..Default::default()
+    }
+}
+
+/// Width in px of one line of text at `size` px in the embedded font, as laid out by usvg (the
+/// extent of the glyphs drawn). Labels recur (ticks, legends): widths are remembered.
+pub(super) fn text_width(content: &str, size: f64) -> f64 {
+    static WIDTHS: OnceLock<Mutex<HashMap<(String, u64), f64>>> = OnceLock::new();
+    let key = (content.to_string(), size.to_bits());
+    let widths = WIDTHS.get_or_init(Default::default);
+    if let Some(&w) = widths.lock().ok().as_ref().and_then(|m| m.get(&key)) {
+        return w;
+    }
+    let doc = format!(
+        "<svg xmlns=\"http://www.w3.org/2000/svg\" width=\"4000\" height=\"400\">\
+         <text x=\"10\" y=\"200\" font-family=\"{FONT}\" font-size=\"{size}\">{}</text></svg>",
+        escape(content)
+    );
+    // A guess of 0.6 em a character stands in should the font ever fail to lay it out.
+    let w = usvg::Tree::from_str(&doc, &options())
+        .ok()
+        .map(|t| t.root().abs_bounding_box().width() as f64)
+        .filter(|w| *w > 0.0)
+        .unwrap_or(0.6 * size * content.chars().count() as f64);
+    if let Ok(mut m) = widths.lock() {
+        m.insert(key, w);
+    }
+    w
+}
+
 /// Rasterizes an SVG document (one of this module's figures, or any SVG) to PNG bytes of the
 /// given width, the height following the document's aspect ratio, on a white background.
 ///
@@ -55,13 +91,8 @@ pub fn to_png(svg: &str, width: u32) -> Result<Vec<u8>, PlotError> {
     if width == 0 || width > MAX_PNG_SIDE {
         return Err(size_error(0));
     }
-    let options = usvg::Options {
-        font_family: EMBEDDED_FAMILY.to_string(),
-        fontdb: embedded_fonts(),
-        ..Default::default()
-    };
     let tree =
-        usvg::Tree::from_str(svg, &options).map_err(|e| PlotError::SvgParse(e.to_string()))?;
+        usvg::Tree::from_str(svg, &options()).map_err(|e| PlotError::SvgParse(e.to_string()))?;
     let size = tree.size();
     let scale = width as f32 / size.width();
     let height = (size.height() * scale).round().max(1.0) as u32;
