@@ -53,7 +53,7 @@
 //! goes in `DEVELOPERS.md`.
 //!
 //! ## Features
-//! `cli` (clap, indicatif: the binary) and `figures` (plotters, resvg and an embedded font) are on
+//! `cli` (clap, indicatif: the binary) and `figures` (resvg, svg2pdf and an embedded font) are on
 //! by default; `default-features = false` leaves the mathematics with rug, rayon and serde only.
 
 #![forbid(unsafe_code)]

@@ -211,8 +211,8 @@ fn perturbed_modulus_is_not_an_attractor() {
 
 #[test]
 fn high_levels_and_the_limit_of_the_double_precision_layout() {
-    // P2 levels 25 and 30 (a ≈ 3e6, 1.4e7): the two branch points near log a are only
-    // 2a^{−3/2} ≈ 4e-10 apart; the attractor moduli are still found, with log a_n within 1e-6 of
+    // P2 levels 25 and 30 (a ≈ 3e6, 1.4e7): the two branch points near ln a, at ln a ± 2i·a^{−3/2},
+    // are only 4a^{−3/2} ≈ 8e-10 apart; the attractor moduli are still found, with log a_n within 1e-6 of
     // the perturbative volume π√(2(4n+3)/9) ("Topological strings from quantum mechanics",
     // arXiv:1410.3382; the corrections are exponentially small). At level 45 the pair is 3.5e-13
     // apart, below what the double-precision layout of the β loop resolves: refused with that

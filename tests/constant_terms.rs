@@ -248,3 +248,31 @@ fn short_requests_and_the_empty_polynomial() {
     assert_eq!(u[0], 1);
     assert!(u[1..].iter().all(|v| v.is_zero()));
 }
+
+#[test]
+fn families_with_equal_boundary_counts_share_their_constant_terms() {
+    // Observation (measured, no source): the strip families pair up by their constant-term
+    // sequences — F0 and F2, Q5 and dP2, Q7 and dP2*, T6 and Q6, the four 6-point families, the three 8-point ones —
+    // which the spectra of these families share too (tests/spectrum.rs). Mutations of Laurent
+    // polynomials preserve the classical period ("Minkowski polynomials and mutations", SIGMA 8
+    // (2012) 094, arXiv:1212.1785), which explains such coincidences (docs/MATHEMATICS.md §10).
+    let terms = |id: &str| {
+        let l = regwave::family(id).unwrap();
+        constant_terms(l.terms(), 300).unwrap()
+    };
+    for class in [
+        &["F0", "F2"][..],
+        &["Q5", "dP2"],
+        &["Q7", "dP2*"],
+        &["T6", "Q6", "Pe6", "dP3"],
+        &["F0*", "F1*", "F2*"],
+    ] {
+        let first = terms(class[0]);
+        for id in &class[1..] {
+            assert_eq!(first, terms(id), "{} and {id}", class[0]);
+        }
+    }
+    // Negative companion: families with different boundary counts differ.
+    assert_ne!(terms("F0"), terms("P2"));
+    assert_ne!(terms("Q5"), terms("F0"));
+}

@@ -357,7 +357,7 @@ fn heatmap_is_one_raster_image_a_panel_with_grey_where_unsampled() {
 /// ψ(z) = (z − 1.5)(z + 2) e^{−z²/6} on the grid the reports use (81 × 33), one value near a
 /// zero making a far outlier of log₁₀|ψ|.
 fn realistic_strip() -> StripMap {
-    let (re, im) = regwave::output::figures::strip_axes();
+    let (re, im) = regwave::output::data::strip_axes();
     let values = sampled(&re, &im, |z| {
         Some((z - 1.6) * (z + 2.0) * (-z * z / 6.0).exp())
     });

@@ -241,7 +241,7 @@ fn multiprecision_solver_agrees_with_nalgebra_on_a_small_truncation() {
 #[test]
 fn complex_and_real_matrices_give_the_same_spectrum_for_families_with_equal_periods() {
     // Observation (measured here, no published source): families whose constant-term
-    // sequences [φⁿ]₀ coincide (Q5 and dP2; Q7 and dP2*, see tests/constant_terms.rs) have the
+    // sequences [φⁿ]₀ coincide (Q5 and dP2; Q7 and dP2*; tests/constant_terms.rs, families_with_equal_boundary_counts_share_their_constant_terms) have the
     // same ground-state eigenvalue. Q5 and Q7 have no det −1 symmetry, so their truncated
     // operators are complex Hermitian, while dP2 and dP2* are computed as real symmetric ones:
     // agreement checks the complex code path against the real one.

@@ -122,7 +122,7 @@ pub fn match_moduli(
     out
 }
 
-/// A crossing ν = k of the scan refined by Newton in log a (double precision).
+/// A crossing ν = k of the scan refined by Newton in ln a (double precision).
 fn refine_crossing(
     fam: &mut attractor::HigherNormalFunction,
     t0: f64,

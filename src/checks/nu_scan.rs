@@ -1,4 +1,4 @@
-//! The ν scan: Re ν(a) on a grid uniform in log a, and its integer crossings.
+//! The ν scan: Re ν(a) on a grid uniform in ln a, and its integer crossings.
 //!
 //! # Method
 //! From just above the spectral threshold to a given modulus, every integer crossing of Re ν
@@ -20,21 +20,21 @@ use crate::checks::VerifyError;
 use crate::curve::attractor::HigherNormalFunction;
 use crate::curve::laurent::Laurent;
 
-/// ν on a grid uniform in log a, with the integer crossings.
+/// ν on a grid uniform in ln a, with the integer crossings.
 #[derive(Debug, Clone, serde::Serialize)]
 pub struct NuScan {
     pub log_a: Vec<f64>,
     pub nu: Vec<f64>,
-    /// (log a by linear interpolation, the integer crossed).
+    /// (ln a by linear interpolation, the integer crossed).
     pub crossings: Vec<(f64, i64)>,
-    /// Whether dν/d(log a) > 0 at every grid point.
+    /// Whether dν/d(ln a) > 0 at every grid point.
     pub increasing: bool,
     /// Grid points just above the threshold where ν could not be computed (the scan starts at
     /// `log_a[0]`; crossings below it are not seen, which the audit reports with ν there).
     pub skipped: usize,
 }
 
-/// Scans Re ν(a) on `points` values of log a from just above the spectral threshold (relative
+/// Scans Re ν(a) on `points` values of ln a from just above the spectral threshold (relative
 /// offset 1e-6) to `a_max`, skipping points at the low end where ν is not computable.
 ///
 /// # Errors

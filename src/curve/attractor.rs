@@ -2,8 +2,8 @@
 //! takes an integer value, labelled by level.
 //!
 //! # Method
-//! `f(t) = Re ν(e^t) − k` is solved in t = log a: first in double precision (bracketing from
-//! the leading asymptotics `ν ≈ (12 − b)(log a)² / (8π²)`, b the number of boundary points, or
+//! `f(t) = Re ν(e^t) − k` is solved in t = ln a: first in double precision (bracketing from
+//! the leading asymptotics `ν ≈ (12 − b)(ln a)² / (8π²)`, b the number of boundary points, or
 //! from the previous levels, then Newton safeguarded by bisection), then refined by Halley's
 //! method at the working precision (one step usually suffices: cubic convergence from 1e-14),
 //! and finally re-solved at a higher precision. The derivatives are exact:
@@ -56,7 +56,7 @@ pub enum AttractorError {
     #[error("ν({a}) has imaginary part {im:e}: not real on the spectral range")]
     NotReal { a: f64, im: f64 },
     /// No sign change of ν − k found.
-    #[error("could not bracket ν = {target} (last ν = {last} at log a = {log_a})")]
+    #[error("could not bracket ν = {target} (last ν = {last} at ln a = {log_a})")]
     NoBracket { target: i64, last: f64, log_a: f64 },
     /// The iteration did not converge.
     #[error("the root of ν = {target} did not converge (last step {step:e})")]
@@ -146,7 +146,7 @@ impl HigherNormalFunction {
         let ac = Complex::with_val(bits, (a, 0));
         let alpha = self.alpha_series(&ac)?;
         let p = periods::periods(&self.laurent, ac, alpha)?;
-        // t = log a: dν/dt = a ν_a, d²ν/dt² = a ν_a + a² ν_aa.
+        // t = ln a: dν/dt = a ν_a, d²ν/dt² = a ν_a + a² ν_aa.
         let slope = Float::with_val(bits, p.nu_da.real() * a);
         let a2 = Float::with_val(bits, a.square_ref());
         let curvature = Float::with_val(bits, p.nu_daa.real() * &a2) + &slope;
@@ -174,7 +174,7 @@ impl HigherNormalFunction {
         match periods::periods(&self.laurent, Complex64::new(a, 0.0), alpha) {
             Ok(p) => Ok((p.nu.re, p.nu_da.re * a)),
             // At large moduli two branch points can come closer than double precision resolves
-            // (P2 from level 19 on: a pair at log a ± iε with ε ≈ 1e-8, measured): the β loop
+            // (P2 from level 19 on: a pair at ln a ± iε with ε ≈ 1e-8, measured): the β loop
             // then fails in double precision, and the same values are computed in MPFR at
             // SEARCH_FALLBACK_BITS instead.
             Err(_) => {
@@ -185,7 +185,7 @@ impl HigherNormalFunction {
         }
     }
 
-    /// Leading-order guess of log a where ν = k: `(12 − b)(log a)²/(8π²) ≈ k − 1/5`.
+    /// Leading-order guess of ln a where ν = k: `(12 − b)(ln a)²/(8π²) ≈ k − 1/5`.
     fn guess_log(&self, k: i64) -> f64 {
         let c = (12.0 - self.boundary_points as f64) / (8.0 * std::f64::consts::PI.powi(2));
         ((k as f64 - 0.2).max(0.3) / c).sqrt()

@@ -573,7 +573,7 @@ mod tests {
 
     #[test]
     fn discriminant_near_a_finite_branch_point_at_a_large_modulus() {
-        // P2 at a = 636 (level 4), z = 6.455 + 0.01i, near the branch points at Re z ≈ log a: in
+        // P2 at a = 636 (level 4), z = 6.455 + 0.01i, near the branch points at Re z ≈ ln a: in
         // x Δ(x) = x³ + 2a x² + a² x − 4 the terms (≈ 3e8) cancel to ≈ 3e4, while
         // (B + a)² − 4AC = (x + a)² − 4/x keeps its accuracy. The fiber must use the latter
         // (reference: 256 bits); the expanded value is measurably worse (negative companion).

@@ -44,7 +44,7 @@ pub enum CycleError {
         outside: usize,
     },
     /// Two branch points are closer than the double-precision layout of the β loop resolves
-    /// (a conjugate pair at log a ± iε, ε ≈ 2a^{−3/2} for P2: the limit is near level 40).
+    /// (a conjugate pair at ln a ± iε, ε ≈ 2a^{−3/2} for P2: the limit is near level 40).
     #[error("branch points near z = {near:.6} are {separation:.1e} apart, below what the double-precision layout of the beta loop resolves (about 5e-14 relative); this modulus is beyond regwave's current range")]
     BranchPointsTooClose { near: f64, separation: f64 },
 }
@@ -92,7 +92,7 @@ pub fn beta_loop<T: CNum>(
     }
     // Nearest to the circle; ties (conjugate pairs) prefer the upper point. The tolerances are
     // relative to rounding, not absolute: at high levels a conjugate pair can be closer than any
-    // fixed tolerance (P2: log a ± 2i a^{−3/2}, 1e-9 apart at level 25).
+    // fixed tolerance (P2: ln a ± 2i a^{−3/2}, 1e-9 apart at level 25).
     let tie = 1e-13 * branch.iter().map(|b| b[0].abs()).fold(1.0, f64::max);
     let b_in = *inside
         .iter()

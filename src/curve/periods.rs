@@ -10,7 +10,7 @@
 //!   path off the puncture; moving the path across z = 0 changes R_α by 2πi times the residue
 //!   of z·d log y there, which vanishes (the factor z is 0), so the value is the torus integral
 //!   over |x| = 1 either way. At a = ∞ (|a| > φ(1,1)):
-//!   `Ω_α = −2πi Σ_{n≥0} (−1)ⁿ [φⁿ]₀ a^{−n−1}`, `R_α = −2πi (log a − Σ_{n≥1} (−1)ⁿ [φⁿ]₀ / (n aⁿ))`.
+//!   `Ω_α = −2πi Σ_{n≥0} (−1)ⁿ [φⁿ]₀ a^{−n−1}`, `R_α = −2πi (ln a − Σ_{n≥1} (−1)ⁿ [φⁿ]₀ / (n aⁿ))`.
 //! - **β**: the loop of the rule in [`crate::curve::cycles`] (valid for all 15 families), on the
 //!   orientation with Im τ > 0.
 //! - `τ = Ω_β / Ω_α`, `ν(a) = (R_β − τ R_α) / (2πi)²`.
@@ -51,7 +51,7 @@ pub enum PeriodsError {
     #[error("the series needs {needed} constant terms, only {available} were given")]
     TooFewTerms { needed: usize, available: usize },
     /// The β loop did not close on the cover.
-    #[error("the β loop did not return to its starting sheet (at very high levels, e.g. P2 beyond level 40, two branch points near log a come closer than the loop's double-precision layout resolves)")]
+    #[error("the β loop did not return to its starting sheet (at very high levels, e.g. P2 beyond level 40, two branch points near ln a come closer than the loop's double-precision layout resolves)")]
     BetaNotClosed,
 }
 

@@ -9,10 +9,13 @@
 //! - `profiles.csv`: ψ on the grid of every level (`level, r, re_psi, im_psi, abs_psi,
 //!   residual`), normalized and phase-fixed as in the figures' data;
 //! - `nu_scan.csv`: the scan of the higher normal function (`a, ln_a, nu`);
-//! - `strip.csv`: |ψ| and arg ψ of the strip map (`re_r, im_r, log10_abs_psi, arg_psi`).
+//! - `strip.csv`: |ψ| and arg ψ of the strip map of the middle level (`re_r, im_r,
+//!   log10_abs_psi, arg_psi`).
 
 use crate::checks::audit::Audit;
 use crate::checks::level::LevelAudit;
+use crate::curve::laurent::Laurent;
+use crate::eigenfunction::profile::{self, ProfileError};
 use crate::output::decimal::{decimal, supported_digits};
 use num_complex::Complex64;
 
@@ -180,6 +183,45 @@ pub fn strip(re: &[f64], im: &[f64], values: &[Vec<Option<Complex64>>]) -> Strin
         }
     }
     out
+}
+
+/// Real parts and imaginary parts of the strip map: 81 × 33 points, enough to see the zeros and
+/// poles.
+pub fn strip_axes() -> (Vec<f64>, Vec<f64>) {
+    let two_pi = 2.0 * std::f64::consts::PI;
+    let re = (0..=80).map(|k| -8.0 + 0.2 * k as f64).collect();
+    let im = (0..=32)
+        .map(|k| -two_pi + two_pi * k as f64 / 16.0)
+        .collect();
+    (re, im)
+}
+
+/// The strip map of an audit: ψ of its middle level on the lines Im r = `im[j]` at the real
+/// parts `re` (double precision: for pictures and tables of |ψ| and arg ψ, not for digits).
+#[derive(Debug, Clone)]
+pub struct StripSample {
+    /// Index into the audit's levels.
+    pub level_index: usize,
+    pub re: Vec<f64>,
+    pub im: Vec<f64>,
+    /// `values[j][k]` at `re[k] + i·im[j]`; None on a pole.
+    pub values: Vec<Vec<Option<Complex64>>>,
+}
+
+/// Samples the strip map of the middle level of `audit`.
+///
+/// # Errors
+/// See [`ProfileError`].
+pub fn strip_sample(laurent: &Laurent, audit: &Audit) -> Result<StripSample, ProfileError> {
+    let level_index = audit.levels.len() / 2;
+    let (re, im) = strip_axes();
+    let values = profile::strip_map(laurent, &audit.levels[level_index].profile, &re, &im)?;
+    Ok(StripSample {
+        level_index,
+        re,
+        im,
+        values,
+    })
 }
 
 /// The column definitions of one table, for a JSON document.

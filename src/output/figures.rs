@@ -19,7 +19,8 @@
 use crate::checks::audit::Audit;
 use crate::curve::laurent::Laurent;
 use crate::eigenfunction::phase;
-use crate::eigenfunction::profile::{self, Profile, ProfileError};
+use crate::eigenfunction::profile::{Profile, ProfileError};
+use crate::output::data::{self, StripSample};
 use crate::output::files::OutputFile;
 use crate::output::plot::{
     self, AgreementBars, NuCurve, PlotError, ProfileSeries, ResidualSeries, StripMap,
@@ -342,18 +343,7 @@ pub fn strip_with(
 
 /// A family id usable in a file name ("F0*" → "F0-dual").
 pub fn file_id(family: &str) -> String {
-    family.replace('*', "-dual")
-}
-
-/// Real parts and imaginary parts of the strip map: 81 × 33 cells, enough to see the zeros and
-/// poles, small enough to commit as SVG.
-pub fn strip_axes() -> (Vec<f64>, Vec<f64>) {
-    let two_pi = 2.0 * std::f64::consts::PI;
-    let re = (0..=80).map(|k| -8.0 + 0.2 * k as f64).collect();
-    let im = (0..=32)
-        .map(|k| -two_pi + two_pi * k as f64 / 16.0)
-        .collect();
-    (re, im)
+    crate::output::files::file_stem(family)
 }
 
 /// Why the figures of an audit could not be made.
@@ -389,15 +379,33 @@ pub fn family_figures_with(
     audit: &Audit,
     options: &FigureOptions,
 ) -> Result<Vec<Figure>, FiguresError> {
+    let strip = data::strip_sample(laurent, audit)?;
+    Ok(family_figures_from(family, audit, &strip, options)?)
+}
+
+/// [`family_figures_with`] with the strip map already sampled ([`data::strip_sample`]).
+///
+/// # Errors
+/// See [`PlotError`].
+pub fn family_figures_from(
+    family: &str,
+    audit: &Audit,
+    strip: &StripSample,
+    options: &FigureOptions,
+) -> Result<Vec<Figure>, PlotError> {
     let profiles: Vec<&Profile> = audit.levels.iter().map(|l| &l.profile).collect();
-    let chosen = &audit.levels[audit.levels.len() / 2].profile;
-    let (re, im) = strip_axes();
-    let values = profile::strip_map(laurent, chosen, &re, &im)?;
+    let chosen = &audit.levels[strip.level_index].profile;
     Ok(vec![
         profiles_with(family, &profiles, options)?,
         residuals_with(family, &profiles, options)?,
         nu_with(family, audit, options)?,
-        strip_with(family, chosen, (&re, &im), values, options)?,
+        strip_with(
+            family,
+            chosen,
+            (&strip.re, &strip.im),
+            strip.values.clone(),
+            options,
+        )?,
     ])
 }
 

@@ -66,7 +66,7 @@ pub fn spectrum_table(family: &str, spectrum: &Spectrum, digits: u32, elapsed_s:
     );
     out.push_str(&format!(
         "{:>5}  {:<40} {:<28} {:>9}\n",
-        "level", "a_n", "log a_n", "error"
+        "level", "a_n", "ln a_n", "error"
     ));
     for l in &spectrum.levels {
         let d = level_digits(&l.value, l.error_estimate, digits);
@@ -171,7 +171,7 @@ pub fn attractors_table(family: &str, list: &[Attractor], digits: u32, elapsed_s
         "level",
         "nu",
         "a_n",
-        "log a_n",
+        "ln a_n",
         width = (digits as usize + 8).max(12)
     ));
     for a in list {

@@ -47,6 +47,12 @@ pub struct AuditRequest {
     /// Also write PNG versions of the figures.
     #[cfg_attr(feature = "cli", arg(long))]
     pub png: bool,
+    /// Also write PDF versions of the figures (from the same SVG, with the embedded font).
+    #[cfg_attr(feature = "cli", arg(long))]
+    pub pdf: bool,
+    /// Draw no titles into the figures (for captions in a paper).
+    #[cfg_attr(feature = "cli", arg(long))]
+    pub no_titles: bool,
 }
 
 #[derive(Serialize)]
@@ -86,7 +92,7 @@ pub(crate) fn run_audit(
 }
 
 /// The tidy tables behind the figures and the report (see [`crate::output::data`]).
-pub(crate) fn data_files(audit: &Audit) -> Vec<OutputFile> {
+pub(crate) fn data_files(audit: &Audit, strip: &data::StripSample) -> Vec<OutputFile> {
     vec![
         (
             "levels.csv".into(),
@@ -97,6 +103,10 @@ pub(crate) fn data_files(audit: &Audit) -> Vec<OutputFile> {
             data::profiles(&audit.levels).into_bytes(),
         ),
         ("nu_scan.csv".into(), data::nu_scan(audit).into_bytes()),
+        (
+            "strip.csv".into(),
+            data::strip(&strip.re, &strip.im, &strip.values).into_bytes(),
+        ),
     ]
 }
 
@@ -162,18 +172,26 @@ pub fn audit(request: &AuditRequest, progress: Observer<'_>) -> Result<Outcome, 
     );
     md.push_str(&audit_markdown(id, &audit, request.digits, Some(elapsed)));
     md.push_str(COLUMNS_NOTE);
+    let strip = data::strip_sample(&sel.laurent, &audit)?;
     let mut files: Vec<OutputFile> = Vec::new();
     #[cfg(feature = "figures")]
     {
-        use crate::output::figures;
-        let mut figs = figures::family_figures(id, &sel.laurent, &audit)?;
-        figs.push(figures::agreement(&[(id, &audit)])?);
+        use crate::output::figures::{self, FigureFormats, FigureOptions};
+        let options = FigureOptions {
+            titles: !request.no_titles,
+        };
+        let mut figs = figures::family_figures_from(id, &audit, &strip, &options)?;
+        figs.push(figures::agreement_with(&[(id, &audit)], &options)?);
         md.push_str(&crate::output::markdown::figure_links(&figures::captions(
             &figs,
         )));
-        files.extend(figures::figure_files(&figs, request.png)?);
+        let formats = FigureFormats {
+            png: request.png,
+            pdf: request.pdf,
+        };
+        files.extend(figures::figure_files_in(&figs, &formats)?);
     }
-    files.extend(data_files(&audit));
+    files.extend(data_files(&audit, &strip));
     files.insert(0, ("audit.json".into(), json.clone().into_bytes()));
     files.insert(0, ("audit.md".into(), md.clone().into_bytes()));
     write_all_atomic(&out, &files)?;

@@ -10,12 +10,13 @@ use crate::eigenfunction::profile::{self, Profile, ProfileOptions, Target};
 use crate::input::grid::Grid;
 use crate::input::selection::Selection;
 use crate::lattice::catalogue;
+use crate::output::figures::{FigureFormats, FigureOptions};
 use crate::output::files::{ensure_writable, refuse_foreign, write_all_atomic, OutputFile};
 use crate::output::records::{
     families_document, pretty, AuditRecord, Document, Inputs, ProfileRecord, NOTE,
 };
 use crate::output::tables::families_table;
-use crate::output::{csv, figures, markdown};
+use crate::output::{csv, data, figures, markdown};
 use crate::progress::{quiet, Counter, Observer, Stage};
 use rayon::prelude::*;
 use serde::Serialize;
@@ -44,6 +45,12 @@ pub struct TourRequest {
     /// Also write PNG versions of the figures.
     #[cfg_attr(feature = "cli", arg(long))]
     pub png: bool,
+    /// Also write PDF versions of the figures (from the same SVG, with the embedded font).
+    #[cfg_attr(feature = "cli", arg(long))]
+    pub pdf: bool,
+    /// Draw no titles into the figures (for captions in a paper).
+    #[cfg_attr(feature = "cli", arg(long))]
+    pub no_titles: bool,
     /// Replace existing files the tour did not write (its own earlier outputs, listed in
     /// `contents.txt`, are always refreshed).
     #[cfg_attr(feature = "cli", arg(long = "force"))]
@@ -140,7 +147,15 @@ pub fn tour(request: &TourRequest, progress: Observer<'_>) -> Result<Outcome, Co
     )?;
     let high_elapsed = high_start.elapsed().as_secs_f64();
     stages.finished(Stage::HighPrecision);
-    let figs = tour_figures(&selections, &audits, &high)?;
+    let strips: Vec<data::StripSample> = selections
+        .iter()
+        .zip(&audits)
+        .map(|(sel, (audit, _))| data::strip_sample(&sel.laurent, audit))
+        .collect::<Result<_, _>>()?;
+    let options = FigureOptions {
+        titles: !request.no_titles,
+    };
+    let figs = tour_figures(&audits, &strips, &high, &options)?;
     let elapsed = start.elapsed().as_secs_f64();
     let family_docs: Vec<AuditDocument> = selections
         .iter()
@@ -223,9 +238,13 @@ pub fn tour(request: &TourRequest, progress: Observer<'_>) -> Result<Outcome, Co
         ),
         ("families.txt".into(), families_table(all).into_bytes()),
     ];
-    files.extend(figures::figure_files(&figs, request.png)?);
-    for (id, (audit, _)) in TOUR_FAMILIES.iter().zip(&audits) {
-        files.extend(data_files(audit).into_iter().map(|(name, bytes)| {
+    let formats = FigureFormats {
+        png: request.png,
+        pdf: request.pdf,
+    };
+    files.extend(figures::figure_files_in(&figs, &formats)?);
+    for ((id, (audit, _)), strip) in TOUR_FAMILIES.iter().zip(&audits).zip(&strips) {
+        files.extend(data_files(audit, strip).into_iter().map(|(name, bytes)| {
             let stem = name.trim_end_matches(".csv");
             (format!("{stem}-{}.csv", figures::file_id(id)), bytes)
         }));
@@ -267,26 +286,28 @@ pub fn tour(request: &TourRequest, progress: Observer<'_>) -> Result<Outcome, Co
 /// The figures of the tour: each family's, the agreement across families, and the residual of
 /// the high-precision eigenfunction.
 fn tour_figures(
-    selections: &[Selection],
     audits: &[(Audit, f64)],
+    strips: &[data::StripSample],
     high: &Profile,
+    options: &FigureOptions,
 ) -> Result<Vec<figures::Figure>, CommandError> {
     let mut figs = Vec::new();
-    for (sel, (audit, _)) in selections.iter().zip(audits) {
-        figs.extend(figures::family_figures(sel.family.id, &sel.laurent, audit)?);
+    for ((id, (audit, _)), strip) in TOUR_FAMILIES.iter().zip(audits).zip(strips) {
+        figs.extend(figures::family_figures_from(id, audit, strip, options)?);
     }
     let pairs: Vec<(&str, &Audit)> = TOUR_FAMILIES
         .iter()
         .copied()
         .zip(audits.iter().map(|a| &a.0))
         .collect();
-    figs.push(figures::agreement(&pairs)?);
-    let mut high_fig = figures::residuals(
+    figs.push(figures::agreement_with(&pairs, options)?);
+    let mut high_fig = figures::residuals_with(
         &format!(
             "{} n = {}, {} digits",
             TOUR_HIGH.0, TOUR_HIGH.1, TOUR_HIGH.2
         ),
         &[high],
+        options,
     )?;
     high_fig.name = format!("residual-{}-{}digits", TOUR_HIGH.0, TOUR_HIGH.2);
     figs.push(high_fig);
