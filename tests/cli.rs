@@ -823,3 +823,19 @@ fn build_refuses_bad_input() {
     assert!(distance > NOT_AN_INTEGER);
     let _ = std::fs::remove_dir_all(&dir);
 }
+
+#[test]
+fn a_reader_that_stops_early_ends_the_output_quietly() {
+    // `regwave families --json | head -c 1` and worse: the reading end is closed before the
+    // program writes anything, so every write meets a closed pipe; no panic, exit 0.
+    let mut child = std::process::Command::new(env!("CARGO_BIN_EXE_regwave"))
+        .args(["families", "--json"])
+        .stdout(std::process::Stdio::piped())
+        .stderr(std::process::Stdio::piped())
+        .spawn()
+        .unwrap();
+    drop(child.stdout.take());
+    let o = child.wait_with_output().unwrap();
+    assert!(o.status.success(), "{}", stderr(&o));
+    assert!(!stderr(&o).contains("panicked"), "{}", stderr(&o));
+}
