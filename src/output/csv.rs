@@ -117,10 +117,25 @@ mod tests {
     }
 }
 
-/// The CSV files of a profile: `psi.csv`, and with the strip `psi_up.csv` (Im r = +2π) and
-/// `psi_down.csv` (Im r = −2π); at the working precision when the profile has it.
+/// The CSV files of a profile: `psi.csv`, and with the strip `psi_up.csv` (Im r = +2π),
+/// `psi_down.csv` (Im r = −2π) and `residual.csv` (`r, residual`: the eigen-equation residual
+/// per grid point relative to max|ψ|, the data of the residual figure); the samples at the
+/// working precision when the profile has it.
 pub fn profile_files(p: &Profile, strip: bool) -> Vec<(&'static str, String)> {
     let mut out = Vec::new();
+    if let Some(res) = &p.residual {
+        // The data of the residual figure: per grid point, relative to max|ψ|.
+        // An error estimate: three significant digits; the grid point exactly.
+        let mut text = String::from("r,residual\n");
+        for (k, v) in res.per_point.iter().enumerate() {
+            text.push_str(&p.grid_spec.point_text(k, 17));
+            match v {
+                Some(v) => text.push_str(&format!(",{v:.2e}\n")),
+                None => text.push_str(",nan\n"),
+            }
+        }
+        out.push(("residual.csv", text));
+    }
     match &p.precise {
         Some(lines) => {
             let two_pi = Float::with_val(p.precision_bits, rug::float::Constant::Pi) * 2u32;

@@ -28,7 +28,7 @@ pub struct BuildRequest {
     )]
     pub grid: String,
     /// Also write the lines Im r = +2 pi and -2 pi (psi_up.csv, psi_down.csv) and form the
-    /// eigen-equation residual.
+    /// eigen-equation residual (per grid point in residual.csv).
     #[cfg_attr(feature = "cli", arg(long))]
     pub strip: bool,
     /// Decimal digits of the working precision (8 to 1000; 16 or less: double precision where
@@ -55,14 +55,20 @@ struct Options {
 /// The names of the files `build` writes.
 pub fn build_files(strip: bool) -> Vec<&'static str> {
     if strip {
-        vec!["psi.csv", "psi_up.csv", "psi_down.csv", "psi.json"]
+        vec![
+            "psi.csv",
+            "psi_up.csv",
+            "psi_down.csv",
+            "residual.csv",
+            "psi.json",
+        ]
     } else {
         vec!["psi.csv", "psi.json"]
     }
 }
 
-/// Builds the eigenfunction and writes `psi.csv` (with the strip: `psi_up.csv`, `psi_down.csv`)
-/// and `psi.json` into the output directory; `progress` is told of the stages.
+/// Builds the eigenfunction and writes `psi.csv` (with the strip: `psi_up.csv`, `psi_down.csv`,
+/// `residual.csv`) and `psi.json` into the output directory; `progress` is told of the stages.
 ///
 /// # Errors
 /// See [`CommandError`]; existing outputs are refused (before computing) unless `replace`.
