@@ -5,6 +5,7 @@
 use clap::{Args, Parser, Subcommand};
 use indicatif::{ProgressBar, ProgressStyle};
 use regwave::checks::audit::AuditError;
+use regwave::curve::attractor::AttractorError;
 use regwave::eigenfunction::profile::ProfileError;
 use regwave::input::selection::SelectionError;
 use regwave::operator::spectrum::SpectrumError;
@@ -216,7 +217,13 @@ fn tick(bar: &ProgressBar, p: &Progress) {
 fn exit_code(e: &CommandError) -> u8 {
     use CommandError as E;
     match e {
-        E::Precision(_) | E::Selection(_) | E::Grid(_) | E::Files(_) | E::NoTarget => 2,
+        E::Precision(_)
+        | E::Selection(_)
+        | E::Grid(_)
+        | E::Files(_)
+        | E::NoTarget
+        | E::TooLarge { .. }
+        | E::Attractor(AttractorError::BeyondReach { .. }) => 2,
         E::Spectrum(SpectrumError::EmptyLevels | SpectrumError::BasisTooSmall { .. }) => 2,
         E::Profile(p) | E::Audit(AuditError::Profile(p)) if p.is_input() => 2,
         _ => 1,

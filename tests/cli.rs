@@ -633,7 +633,7 @@ fn bad_moduli_digits_and_levels() {
     );
     rejects(
         &["periods", "--family", "F0", "--modulus", "inf"],
-        "not finite",
+        "not a finite number",
     );
     rejects(
         &["periods", "--family", "F0", "--modulus", "nan"],

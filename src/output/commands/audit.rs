@@ -11,7 +11,7 @@ use crate::output::files::{
     ensure_writable, file_stem, refuse_existing, write_all_atomic, OutputFile,
 };
 use crate::output::markdown::{audit_markdown, COLUMNS_NOTE};
-use crate::output::records::{pretty, AuditRecord, Document, Inputs};
+use crate::output::records::{pretty, AuditRecord, Document, GridRecord, Inputs};
 use crate::precision::check_digits;
 use crate::progress::Observer;
 use crate::TOOL_VERSION;
@@ -27,10 +27,10 @@ pub struct AuditRequest {
     #[cfg_attr(feature = "cli", command(flatten))]
     pub family: FamilyRequest,
     /// Levels: an inclusive range A..B or one level n.
-    #[cfg_attr(feature = "cli", arg(long, default_value = super::defaults::LEVELS))]
+    #[cfg_attr(feature = "cli", arg(long, default_value = super::defaults::LEVELS, allow_hyphen_values = true))]
     pub levels: String,
     /// Decimal digits (8 to 1000; 16 or less: double precision where it suffices).
-    #[cfg_attr(feature = "cli", arg(long, default_value_t = super::defaults::DIGITS))]
+    #[cfg_attr(feature = "cli", arg(long, default_value_t = super::defaults::DIGITS, allow_negative_numbers = true))]
     pub digits: u32,
     /// Grid of real parts R0:R1:N for the residual and the profiles.
     #[cfg_attr(
@@ -60,6 +60,7 @@ pub(crate) struct Options {
     pub levels: [usize; 2],
     pub digits: u32,
     pub grid: String,
+    pub grid_read: GridRecord,
 }
 
 /// Relative perturbation of the level-0 modulus for the negative control.
@@ -143,6 +144,7 @@ pub fn audit(request: &AuditRequest, progress: Observer<'_>) -> Result<Outcome, 
     check_digits(request.digits)?;
     let sel = request.family.resolve()?;
     let levels = parse_levels(&request.levels)?;
+    crate::curve::attractor::check_reach(&levels)?;
     let grid = Grid::parse(&request.grid)?;
     let id = sel.family.id;
     let out = request
@@ -158,6 +160,7 @@ pub fn audit(request: &AuditRequest, progress: Observer<'_>) -> Result<Outcome, 
             levels: [*levels.start(), *levels.end()],
             digits: request.digits,
             grid: request.grid.clone(),
+            grid_read: GridRecord::new(&grid),
         },
     };
     let doc = Document::new(

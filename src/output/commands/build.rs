@@ -6,7 +6,7 @@ use crate::eigenfunction::profile::{self, ProfileOptions};
 use crate::input::grid::Grid;
 use crate::output::csv;
 use crate::output::files::{refuse_existing, write_all_atomic, OutputFile};
-use crate::output::records::{pretty, Document, Inputs, ProfileRecord};
+use crate::output::records::{pretty, Document, GridRecord, Inputs, ProfileRecord};
 use crate::precision::check_digits;
 use crate::progress::Observer;
 use serde::Serialize;
@@ -33,7 +33,7 @@ pub struct BuildRequest {
     pub strip: bool,
     /// Decimal digits of the working precision (8 to 1000; 16 or less: double precision where
     /// it suffices).
-    #[cfg_attr(feature = "cli", arg(long, default_value_t = super::defaults::DIGITS))]
+    #[cfg_attr(feature = "cli", arg(long, default_value_t = super::defaults::DIGITS, allow_negative_numbers = true))]
     pub digits: u32,
     /// Output directory.
     #[cfg_attr(feature = "cli", arg(long, default_value = "out/build"))]
@@ -48,6 +48,7 @@ struct Options {
     level: Option<usize>,
     modulus: Option<String>,
     grid: String,
+    grid_read: GridRecord,
     strip: bool,
     digits: u32,
 }
@@ -77,7 +78,7 @@ pub fn build(request: &BuildRequest, progress: Observer<'_>) -> Result<Outcome, 
     check_digits(request.digits)?;
     let sel = request.family.resolve()?;
     let grid = Grid::parse(&request.grid)?;
-    let target = request.target.target()?;
+    let target = request.target.target(&sel, request.digits)?;
     let files = build_files(request.strip);
     refuse_existing(&request.out, &files, request.replace)?;
     let options = ProfileOptions {
@@ -94,6 +95,7 @@ pub fn build(request: &BuildRequest, progress: Observer<'_>) -> Result<Outcome, 
             level: request.target.level,
             modulus: request.target.modulus.clone(),
             grid: request.grid.clone(),
+            grid_read: GridRecord::new(&options.grid),
             strip: request.strip,
             digits: request.digits,
         },

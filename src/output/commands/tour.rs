@@ -13,7 +13,7 @@ use crate::lattice::catalogue;
 use crate::output::figures::{FigureFormats, FigureOptions};
 use crate::output::files::{ensure_writable, refuse_foreign, write_all_atomic, OutputFile};
 use crate::output::records::{
-    families_document, pretty, AuditRecord, Document, Inputs, ProfileRecord, NOTE,
+    families_document, pretty, AuditRecord, Document, GridRecord, Inputs, ProfileRecord, NOTE,
 };
 use crate::output::tables::families_table;
 use crate::output::{csv, data, figures, markdown};
@@ -167,6 +167,7 @@ pub fn tour(request: &TourRequest, progress: Observer<'_>) -> Result<Outcome, Co
                     levels: [*TOUR_LEVELS.start(), *TOUR_LEVELS.end()],
                     digits: TOUR_DIGITS,
                     grid: TOUR_GRID.to_string(),
+                    grid_read: GridRecord::new(&grid),
                 },
             };
             let bits = AuditRecord::precision_bits(audit);
