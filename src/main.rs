@@ -127,25 +127,16 @@ fn main() -> ExitCode {
 }
 
 fn execute(command: Command) -> Result<(), CommandError> {
-    let plain = ProgressBar::hidden;
     match command {
         Command::Families { json } => show(json, &run::families()),
-        Command::Spectrum { request, json } => show(
-            json,
-            &observed("spectrum", &plain(), |_| run::spectrum(&request))?,
-        ),
-        Command::Periods { request, json } => show(
-            json,
-            &observed("periods", &plain(), |_| run::periods(&request))?,
-        ),
-        Command::Attractors { request, json } => show(
-            json,
-            &observed("attractors", &plain(), |_| run::attractors(&request))?,
-        ),
-        Command::Check { request, json } => show(
-            json,
-            &observed("check", &plain(), |_| run::check(&request))?,
-        ),
+        Command::Spectrum { request, json } => {
+            barless("spectrum", json, || run::spectrum(&request))
+        }
+        Command::Periods { request, json } => barless("periods", json, || run::periods(&request)),
+        Command::Attractors { request, json } => {
+            barless("attractors", json, || run::attractors(&request))
+        }
+        Command::Check { request, json } => barless("check", json, || run::check(&request)),
         Command::Build { request, json } => {
             let bar = progress_bar(json.json || request.digits <= 16, "build");
             let outcome = observed("build", &bar, |observe| run::build(&request, observe))?;
@@ -191,9 +182,19 @@ fn execute(command: Command) -> Result<(), CommandError> {
     }
 }
 
+/// Runs a command that reports no stages (so draws no bar, only the heartbeat) and shows its
+/// outcome.
+fn barless(
+    label: &str,
+    json: Json,
+    work: impl FnOnce() -> Result<Outcome, CommandError>,
+) -> Result<(), CommandError> {
+    show(json, &observed(label, &ProgressBar::hidden(), |_| work())?)
+}
+
 /// Runs `work` with an observer that draws `bar` and, while `bar` is hidden (stderr not a
 /// terminal, or quiet output), a heartbeat: a line on stderr every [`HEARTBEAT`] once the work
-/// has run that long ("regwave build: still working, 20 s; last finished: sampled (2/3)").
+/// has run that long ("regwave build: still working, 20 s; last finished: modulus (1/2)").
 fn observed<T>(label: &str, bar: &ProgressBar, work: impl FnOnce(Observer<'_>) -> T) -> T {
     /// Stops the heartbeat also when the work unwinds, so that the scope can end.
     struct Stop<'a>(&'a Heartbeat);

@@ -67,17 +67,18 @@ impl AuditRequest {
 /// The names of every file an audit of `family` writes: the report, the tables and (feature
 /// `figures`) the figures.
 fn audit_files(family: &str, request: &AuditRequest) -> Vec<String> {
-    let mut names: Vec<String> = ["audit.md", "audit.json"]
+    let names = ["audit.md", "audit.json"]
         .iter()
         .chain(&DATA_FILES)
-        .map(|n| n.to_string())
-        .collect();
+        .map(|n| n.to_string());
     #[cfg(feature = "figures")]
-    names.extend(crate::output::figures::audit_figure_names(
+    let names = names.chain(crate::output::figures::audit_figure_names(
         family,
         &request.formats(),
     ));
-    names
+    #[cfg(not(feature = "figures"))]
+    let _ = (family, request);
+    names.collect()
 }
 
 #[derive(Serialize)]
