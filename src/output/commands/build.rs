@@ -5,7 +5,7 @@ use super::{CommandError, FamilyRequest, Outcome, TargetRequest};
 use crate::eigenfunction::profile::{self, ProfileOptions};
 use crate::input::grid::Grid;
 use crate::output::csv;
-use crate::output::files::{refuse_existing, write_all_atomic, OutputFile};
+use crate::output::files::{Destination, OutputFile, Replace};
 use crate::output::records::{pretty, Document, GridRecord, Inputs, ProfileRecord};
 use crate::precision::check_digits;
 use crate::progress::Observer;
@@ -72,7 +72,8 @@ pub fn build_files(strip: bool) -> Vec<&'static str> {
 /// `residual.csv`) and `psi.json` into the output directory; `progress` is told of the stages.
 ///
 /// # Errors
-/// See [`CommandError`]; existing outputs are refused (before computing) unless `replace`.
+/// See [`CommandError`]; an unwritable output directory and existing outputs are refused
+/// (before computing; existing ones unless `replace`).
 pub fn build(request: &BuildRequest, progress: Observer<'_>) -> Result<Outcome, CommandError> {
     let start = Instant::now();
     check_digits(request.digits)?;
@@ -80,7 +81,7 @@ pub fn build(request: &BuildRequest, progress: Observer<'_>) -> Result<Outcome, 
     let grid = Grid::parse(&request.grid)?;
     let target = request.target.target(&sel, request.digits)?;
     let files = build_files(request.strip);
-    refuse_existing(&request.out, &files, request.replace)?;
+    let destination = Destination::prepare(&request.out, &files, Replace::asked(request.replace))?;
     let options = ProfileOptions {
         grid,
         strip: request.strip,
@@ -112,7 +113,7 @@ pub fn build(request: &BuildRequest, progress: Observer<'_>) -> Result<Outcome, 
         .map(|(name, text)| (name.to_string(), text.into_bytes()))
         .collect();
     outputs.push(("psi.json".into(), json.clone().into_bytes()));
-    write_all_atomic(&request.out, &outputs)?;
+    destination.write(&outputs)?;
     Ok(Outcome {
         json,
         text: String::new(),

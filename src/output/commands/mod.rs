@@ -96,6 +96,27 @@ pub enum CommandError {
     Unmatched { family: String, list: String },
 }
 
+impl CommandError {
+    /// Whether the error is the caller's input (a request outside its domain, unreadable text,
+    /// an output that cannot or may not be written) rather than a computation that failed or a
+    /// check that did not pass. The binary exits with 2 for the first, 1 for the second.
+    pub fn is_input(&self) -> bool {
+        use CommandError as E;
+        match self {
+            E::Precision(_)
+            | E::Selection(_)
+            | E::Grid(_)
+            | E::Files(_)
+            | E::NoTarget
+            | E::TooLarge { .. }
+            | E::Attractor(AttractorError::BeyondReach { .. })
+            | E::Spectrum(SpectrumError::EmptyLevels | SpectrumError::BasisTooSmall { .. }) => true,
+            E::Profile(p) | E::Audit(AuditError::Profile(p)) => p.is_input(),
+            _ => false,
+        }
+    }
+}
+
 #[cfg(feature = "figures")]
 impl From<crate::output::figures::FiguresError> for CommandError {
     fn from(e: crate::output::figures::FiguresError) -> Self {
