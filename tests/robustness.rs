@@ -478,6 +478,7 @@ fn table() -> Vec<Case> {
 fn hostile_command_lines_get_a_reason_and_their_exit_code() {
     let cases = table();
     assert!(cases.len() >= 150, "only {} cases", cases.len());
+    eprintln!("{} hostile command lines", cases.len());
     let mut failures = Vec::new();
     for c in &cases {
         let start = Instant::now();
