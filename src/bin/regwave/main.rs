@@ -4,21 +4,19 @@
 //! SIGINT and SIGTERM (exit codes 130 and 143), and maps errors to exit codes (2: bad input, 1: a
 //! computation failed or a check did not pass).
 
+mod terminal;
+
 use clap::{Args, Parser, Subcommand};
-use indicatif::{ProgressBar, ProgressStyle};
+use indicatif::ProgressBar;
 use regwave::checks::audit::AuditError;
 use regwave::eigenfunction::profile::ProfileError;
 use regwave::input::selection::SelectionError;
 use regwave::output::commands::{self as run, CommandError, Outcome};
 use regwave::output::files::FileError;
 use regwave::precision::PrecisionError;
-use regwave::progress::{Heartbeat, Observer, Progress, Stage};
-use std::io::IsTerminal;
+use regwave::progress::{Progress, Stage};
 use std::process::ExitCode;
-use std::time::Duration;
-
-/// Interval of the heartbeat lines when no progress bar is drawn.
-const HEARTBEAT: Duration = Duration::from_secs(10);
+use terminal::{observed, progress_bar};
 
 #[derive(Parser)]
 #[command(
@@ -115,7 +113,7 @@ struct Json {
 
 fn main() -> ExitCode {
     #[cfg(unix)]
-    stop_cleanly_on_signals();
+    terminal::stop_cleanly_on_signals();
     match execute(Cli::parse().command) {
         Ok(()) => ExitCode::SUCCESS,
         Err(e) => {
@@ -191,76 +189,6 @@ fn barless(
     show(json, &observed(label, &ProgressBar::hidden(), |_| work())?)
 }
 
-/// Runs `work` with an observer that draws `bar` and, while `bar` is hidden (stderr not a
-/// terminal, or quiet output), a heartbeat: a line on stderr every [`HEARTBEAT`] once the work
-/// has run that long ("regwave build: still working, 20 s; last finished: modulus (1/2)").
-fn observed<T>(label: &str, bar: &ProgressBar, work: impl FnOnce(Observer<'_>) -> T) -> T {
-    /// Stops the heartbeat also when the work unwinds, so that the scope can end.
-    struct Stop<'a>(&'a Heartbeat);
-    impl Drop for Stop<'_> {
-        fn drop(&mut self) {
-            self.0.stop();
-        }
-    }
-    let heartbeat = Heartbeat::new(HEARTBEAT);
-    std::thread::scope(|s| {
-        if bar.is_hidden() {
-            s.spawn(|| {
-                while let Some(line) = heartbeat.next_line() {
-                    eprintln!("regwave {label}: {line}");
-                }
-            });
-        }
-        let _stop = Stop(&heartbeat);
-        work(&|p: &Progress| {
-            tick(bar, p);
-            heartbeat.observe(p);
-        })
-    })
-}
-
-/// SIGINT and SIGTERM stop the program cleanly: a set of outputs being written is first
-/// completed or rolled back ([`regwave::output::files::try_stop_writing`]), so neither a
-/// partial set nor a staging folder is left; then one line on stderr and exit code 128 + the
-/// signal (130, 143). A second signal while waiting for the write stops at once.
-#[cfg(unix)]
-fn stop_cleanly_on_signals() {
-    use signal_hook::consts::{SIGINT, SIGTERM};
-    let Ok(mut signals) = signal_hook::iterator::Signals::new([SIGINT, SIGTERM]) else {
-        return;
-    };
-    std::thread::spawn(move || {
-        let Some(signal) = signals.forever().next() else {
-            return;
-        };
-        let mut whole = true;
-        while !regwave::output::files::try_stop_writing() {
-            if signals.pending().next().is_some() {
-                whole = false;
-                break;
-            }
-            std::thread::sleep(Duration::from_millis(10));
-        }
-        let name = if signal == SIGINT {
-            "SIGINT"
-        } else {
-            "SIGTERM"
-        };
-        // Over a progress bar on a terminal: clear its line first.
-        let clear = if std::io::stderr().is_terminal() {
-            "\r\x1b[2K"
-        } else {
-            ""
-        };
-        if whole {
-            eprintln!("{clear}regwave: stopped by {name}; no partial outputs left");
-        } else {
-            eprintln!("{clear}regwave: stopped by {name} while moving outputs in; they may be incomplete (the old files are in the hidden staging folder)");
-        }
-        std::process::exit(128 + signal);
-    });
-}
-
 /// Prints the JSON document or the text. A reader that stops early (`| head`) is not an error.
 fn show(json: Json, outcome: &Outcome) -> Result<(), CommandError> {
     use std::io::Write;
@@ -283,28 +211,6 @@ fn wrote(command: &str, outcome: &Outcome) {
             outcome.elapsed_s
         );
     }
-}
-
-/// A progress bar on stderr when it is a terminal and output is not quiet; hidden otherwise.
-fn progress_bar(quiet: bool, label: &str) -> ProgressBar {
-    if quiet || !std::io::stderr().is_terminal() {
-        return ProgressBar::hidden();
-    }
-    let bar = ProgressBar::new(1);
-    bar.set_style(
-        ProgressStyle::with_template("{prefix} [{bar:30}] {pos}/{len} {msg} ({elapsed})")
-            .expect("a valid template")
-            .progress_chars("=> "),
-    );
-    bar.set_prefix(label.to_string());
-    bar
-}
-
-/// Shows one progress event.
-fn tick(bar: &ProgressBar, p: &Progress) {
-    bar.set_length(p.total as u64);
-    bar.set_position(p.done as u64);
-    bar.set_message(p.stage.to_string());
 }
 
 /// 2 for bad input, 1 for a computation that failed or a check that did not pass.
