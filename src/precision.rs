@@ -234,6 +234,17 @@ pub fn diagnostic_bits(lambda_abs: f64) -> u32 {
     }
 }
 
+/// How many times a spectral solve raises its precision after a non-positive pivot before it
+/// reports the failure.
+pub const SPECTRUM_RETRIES: usize = 2;
+
+/// The precision of the next try of a spectral solve that lost positive definiteness at `bits`:
+/// half as much again (the condition-number estimate fell short; its shortfall is unknown, so
+/// the step is geometric).
+pub fn raised_spectrum_bits(bits: u32) -> u32 {
+    bits.saturating_add(bits.div_ceil(2))
+}
+
 /// The working precision of a spectral solve: the bits of the condition number (`condition_bits`,
 /// from a bound on the matrix entries and the threshold), the bits of the digits wanted, and the
 /// guard bits.

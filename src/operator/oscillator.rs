@@ -283,13 +283,16 @@ impl Frame {
 }
 
 /// Working precision for a basis of size n: covers log₂ of the condition number (entries are
-/// bounded by `w e^{ρ²/2 + 2ρ√n}` since `L_n(−x) ≤ e^{2√(nx)}`, eigenvalues exceed the
-/// threshold), the wanted digits, and the guard bits.
+/// bounded by `w e^{ρ²/2 + 2|ρ|√n}` since `L_n(−x) ≤ e^{2√(nx)}` with x = ρ², eigenvalues
+/// exceed the threshold), the wanted digits, and the guard bits. ρ is stored with a sign (so
+/// that θ ∈ (−π/2, π/2]); the bound needs its modulus — with the signed value it fell short by
+/// up to ~200 bits for the families with ρ < 0 terms (T6 at N = 675), and T6 at 20 digits lost
+/// positive definiteness at N = 1013.
 pub(crate) fn working_bits(terms: &[OscTerm], n: usize, threshold: f64, digits: u32) -> u32 {
     let ln_max = terms
         .iter()
         .map(|t| {
-            let rho = t.rho.to_f64();
+            let rho = t.rho.to_f64().abs();
             t.weight.to_f64().ln() + 0.5 * rho * rho + 2.0 * rho * (n as f64).sqrt()
         })
         .fold(f64::MIN, f64::max);

@@ -38,8 +38,10 @@
 use crate::curve::laurent::Laurent;
 use crate::numerics::hermitian::{
     cholesky, inner, lowest_eigenpairs, solve_lower, solve_upper, Block, HermitianError,
+    HermitianMatrix,
 };
 use crate::operator::oscillator::{assemble, frame, working_bits, Frame};
+use crate::precision::{raised_spectrum_bits, SPECTRUM_RETRIES};
 use num_complex::Complex64;
 use rug::Float;
 use std::ops::RangeInclusive;
@@ -138,6 +140,33 @@ struct Solve {
     iterations: usize,
 }
 
+/// `H_N` assembled at `bits` and Cholesky-factored in place, with whether it is real and the
+/// precision that succeeded. The bound behind `working_bits` is an estimate of the condition
+/// number; should the factorization still meet a non-positive pivot, the precision is raised
+/// ([`raised_spectrum_bits`]) and the matrix assembled and factored again, up to
+/// [`SPECTRUM_RETRIES`] times, instead of failing.
+fn factored(
+    laurent: &Laurent,
+    frame: &Frame,
+    n: usize,
+    mut bits: u32,
+) -> Result<(HermitianMatrix, bool, u32), SpectrumError> {
+    let mut retries = 0;
+    loop {
+        let terms = frame.terms(laurent, bits);
+        let mut h = assemble(&terms, n, bits, frame.mirror.is_some());
+        let real = h.is_real();
+        match cholesky(&mut h, bits) {
+            Ok(()) => return Ok((h, real, bits)),
+            Err(HermitianError::NotPositiveDefinite { .. }) if retries < SPECTRUM_RETRIES => {
+                retries += 1;
+                bits = raised_spectrum_bits(bits);
+            }
+            Err(e) => return Err(e.into()),
+        }
+    }
+}
+
 /// One rung of the ladder: working precision from the condition-number estimate of the frame's
 /// terms, `H_N` assembled, factored and its lowest `count` eigenpairs found (item 4 of the
 /// module doc), the iteration started from `seed` if given.
@@ -151,10 +180,7 @@ fn solve_basis(
 ) -> Result<Solve, SpectrumError> {
     let probe = frame.terms(laurent, 64);
     let bits = working_bits(&probe, n, frame.threshold, digits);
-    let terms = frame.terms(laurent, bits);
-    let mut h = assemble(&terms, n, bits, frame.mirror.is_some());
-    let real = h.is_real();
-    cholesky(&mut h, bits)?;
+    let (h, real, bits) = factored(laurent, frame, n, bits)?;
     let e = lowest_eigenpairs(&h, count, digits, bits, seed)?;
     Ok(Solve {
         values: e.values,
@@ -427,6 +453,28 @@ mod tests {
             e.to_string(),
             "inverse iteration did not converge in 400 iterations (last relative change 5e-1)"
         );
+    }
+
+    #[test]
+    fn a_lost_pivot_is_recovered_by_raising_the_precision() {
+        let t6 = crate::family("T6").unwrap();
+        let frame = frame(&t6, 1.0);
+        let n = 120;
+        let needed = working_bits(&frame.terms(&t6, 64), n, frame.threshold, 10);
+        // Too low a precision: the plain factorization meets a non-positive pivot (the negative
+        // companion) ...
+        // Measured: at N = 120 the factorization needs about 100 bits (fails at 96, succeeds
+        // at 104); the working precision gives more (the bound, the digits and guard bits).
+        let low = 64;
+        assert!(needed > 104);
+        let mut h = assemble(&frame.terms(&t6, low), n, low, frame.mirror.is_some());
+        assert!(matches!(
+            cholesky(&mut h, low),
+            Err(HermitianError::NotPositiveDefinite { .. })
+        ));
+        // ... and the factorization with retries succeeds at a raised precision.
+        let (_, _, bits) = factored(&t6, &frame, n, low).unwrap();
+        assert!(bits > low && bits <= raised_spectrum_bits(raised_spectrum_bits(low)));
     }
 
     #[test]
