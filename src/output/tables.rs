@@ -8,7 +8,7 @@ use crate::curve::laurent::Laurent;
 use crate::curve::periods::Comparison;
 use crate::lattice::catalogue::Family;
 use crate::operator::spectrum::Spectrum;
-use crate::output::decimal::{decimal, sci, supported_digits};
+use crate::output::decimal::{decimal, sci, sci_opt, supported_digits};
 use rug::Float;
 
 /// `regwave families` as a table.
@@ -225,11 +225,18 @@ pub fn check_text(family: &str, c: &Check, elapsed_s: f64) -> String {
     if let Some(r) = &p.residual {
         out.push_str(&format!(
             "  eigen-equation residual (max / rms)    {} / {} on {} points ({} pole products as limits)\n",
-            sci(r.max),
-            sci(r.rms),
-            p.grid.len(),
+            sci_opt(r.max),
+            sci_opt(r.rms),
+            r.points_formed,
             r.pole_limits
         ));
+        if r.points_without_value > 0 {
+            out.push_str(&format!(
+                "  residual NOT formed at {} of {} points: psi has no value there (see points_without_value)\n",
+                r.points_without_value,
+                p.grid.len()
+            ));
+        }
     }
     out.push_str(&format!(
         "  L2 norm (independent quadrature)       {:.15} (tail {}; inside the grid {:.12})\n",
