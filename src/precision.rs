@@ -238,14 +238,19 @@ pub fn point_loss_digits(log10_term: f64, log10_value: f64, exponent_abs: f64) -
 /// Digits every written value of a profile requested at `digits` must hold relative to its own
 /// size, else it is computed again at a raised precision ([`raised_point_digits`]) or written as
 /// `nan`: the requested digits, and for a request of at most [`DOUBLE_DIGITS`] the
-/// [`DIGITS_LEFT_MIN`] that the profile's plan keeps relative to the peak.
+/// [`POINT_DIGITS_MIN_DOUBLE`].
 pub fn point_digits_wanted(digits: u32) -> f64 {
     if digits <= DOUBLE_DIGITS {
-        DIGITS_LEFT_MIN
+        POINT_DIGITS_MIN_DOUBLE
     } else {
         digits as f64
     }
 }
+
+/// Digits every value of a double-precision request must hold relative to its own size: 10, the
+/// 15 of double precision less the 4 that |λ| may cost a run in double precision
+/// ([`profile_in_double`]: residual 2e-15·|λ| ≤ 1e-11) and 1 for the cancellation near the peak.
+pub const POINT_DIGITS_MIN_DOUBLE: f64 = 10.0;
 
 /// Margin of the raised precision above the wanted digits plus the estimated loss: 4 digits.
 pub const RAISE_MARGIN_DIGITS: f64 = 4.0;
@@ -363,7 +368,7 @@ mod tests {
 
     #[test]
     fn raised_points_stay_within_the_budget() {
-        assert_eq!(point_digits_wanted(16), DIGITS_LEFT_MIN);
+        assert_eq!(point_digits_wanted(16), POINT_DIGITS_MIN_DOUBLE);
         assert_eq!(point_digits_wanted(40), 40.0);
         // 12 wanted + 20 lost + 4 of margin at a double-precision run.
         assert_eq!(raised_point_digits(12.0, 20.0, 15.0), Some(36.0));

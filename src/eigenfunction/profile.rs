@@ -15,11 +15,23 @@
 //! 4. The cancellation in χ − χ∘ι̃ is measured on every line; if fewer than
 //!    [`DIGITS_LEFT_MIN`] digits would survive on R the lines are recomputed at a precision that
 //!    covers the loss (at most three times).
-//! 5. Residual `A ψ(r − 2πi) + C ψ(r + 2πi) − (B + a) ψ(r)` relative to max|ψ| on the grid, at the
+//! 5. Per point ([`PointDigits`]): the digits each value holds relative to its own size — the
+//!    working digits less the cancellation in χ − χ∘ι̃ at that point and the error of the
+//!    exponent integral ([`crate::precision::point_loss_digits`]). Values with fewer than the
+//!    wanted digits ([`crate::precision::point_digits_wanted`]), and in double precision every
+//!    value beyond [`DOUBLE_RANGE`], are computed again at a raised precision on all lines, with
+//!    their residual (twice at most, within [`crate::precision::raise_budget_digits`]); a zero of
+//!    ψ (its loss grows with the precision) keeps its first value; what is still short has no
+//!    value (`nan` in the files) and is listed with its reason.
+//! 6. Reach ([`reach`]): a grid beyond |r| = [`REACH`] (less at a merging end when the loss
+//!    |r|/(2 ln 10) exceeds the budget) is refused before any sampling
+//!    ([`ProfileError::BeyondReach`], an input error), with the size of |ψ| there from the decay
+//!    rate κ of the end (1/2 branched, 1 otherwise).
+//! 7. Residual `A ψ(r − 2πi) + C ψ(r + 2πi) − (B + a) ψ(r)` relative to max|ψ| on the grid, at the
 //!    working precision, before any rounding. At the poles of ψ on the boundary lines (r = 0 when
 //!    A or C vanishes at x = −1) the products A·ψ(r − 2πi), C·ψ(r + 2πi) are finite and are
 //!    evaluated as limits: by the mean-value formula of the analytic product on a circle around r.
-//! 6. Unit L² norm on R ([`Eigenfunction::normalization`]) and the phase rule: with a reality rule
+//! 8. Unit L² norm on R ([`Eigenfunction::normalization`]) and the phase rule: with a reality rule
 //!    k ([`phase::reality_rule`]) e^{−ikr²/(8π)}ψ is made real and positive where |ψ| is largest
 //!    on the grid; otherwise ψ itself is made real and positive there.
 //!
@@ -467,6 +479,14 @@ fn settle_points(
     let mut todo: Vec<(usize, f64)> = (0..p.grid.len())
         .filter_map(|k| plan(p, k, work, false).map(|l| (k, l)))
         .collect();
+    // The values as first computed: kept at a zero of ψ (see below).
+    let original: Vec<(usize, [Option<rug::Complex>; 3])> = todo
+        .iter()
+        .map(|&(k, _)| (k, [0, 1, 2].map(|l| value_at(p, l, k))))
+        .collect();
+    let first_loss: Vec<f64> = todo.iter().map(|t| t.1).collect();
+    let first_digits = p.point_digits.relative.clone();
+    let first_residual = p.residual.clone();
     let first: Vec<(usize, f64)> = todo
         .iter()
         .map(|&(k, _)| (k, min_digits(p, k, lines_n)))
@@ -535,6 +555,29 @@ fn settle_points(
             .filter_map(|&k| plan(p, k, work, true).map(|l| (k, l)))
             .collect();
     }
+    // A zero of ψ: its loss grew with the precision as fast as the precision itself (the value
+    // falls towards 0, |ψ| is held to the working precision absolutely, not relative to its
+    // size). Such a point keeps its first value, held absolutely like the rest of the line.
+    let run_digits = p.working_digits;
+    let mut zeros = Vec::new();
+    todo.retain(|&(k, loss)| {
+        let i = original.iter().position(|o| o.0 == k).unwrap_or(0);
+        let zero = loss - first_loss[i] >= (work - run_digits) - RAISE_MARGIN_DIGITS
+            && work > run_digits
+            && first_loss[i].is_finite();
+        if zero {
+            zeros.push(k);
+            for (l, v) in original[i].1.iter().enumerate() {
+                set_value(p, l, k, v.clone());
+                p.point_digits.relative[l][k] = first_digits[l][k];
+            }
+            if let (Some(res), Some(old)) = (p.residual.as_mut(), &first_residual) {
+                let absolute = old.per_point[k].map(|v| v * old.scale);
+                res.replace(&[k], &[absolute]);
+            }
+        }
+        !zero
+    });
     let dropped: Vec<usize> = todo.iter().map(|t| t.0).collect();
     for &k in &dropped {
         for l in 0..lines_n {
@@ -556,7 +599,15 @@ fn settle_points(
     }
     if let Some(bits) = p.point_digits.raised_bits {
         for (k, digits) in first {
-            if !dropped.contains(&k) {
+            if zeros.contains(&k) {
+                p.point_digits.raised.push(PointNote {
+                    line: 0,
+                    index: k,
+                    r: p.grid[k],
+                    digits,
+                    reason: format!("a zero of psi: at {bits} bits its size fell with the precision; the first value is kept, accurate relative to the line's peak, not to its own size"),
+                });
+            } else if !dropped.contains(&k) {
                 p.point_digits.raised.push(PointNote {
                     line: 0,
                     index: k,
@@ -578,6 +629,22 @@ fn min_digits(p: &Profile, k: usize, lines_n: usize) -> f64 {
     (0..lines_n)
         .filter_map(|l| p.point_digits.relative[l][k])
         .fold(f64::INFINITY, f64::min)
+}
+
+/// The written value of line `l` at point `k` (at the working precision when the profile has
+/// it).
+fn value_at(p: &Profile, l: usize, k: usize) -> Option<rug::Complex> {
+    match &p.precise {
+        Some(precise) => [&precise.real_line, &precise.upper_line, &precise.lower_line][l]
+            .get(k)
+            .cloned()
+            .flatten(),
+        None => [&p.real_line, &p.upper_line, &p.lower_line][l]
+            .get(k)
+            .copied()
+            .flatten()
+            .map(|v| rug::Complex::with_val(DOUBLE_BITS, (v.re, v.im))),
+    }
 }
 
 /// Sets the written value of line `l` at point `k` (normalized and phase-fixed; None: no value),

@@ -238,6 +238,13 @@ pub fn check_text(family: &str, c: &Check, elapsed_s: f64) -> String {
             ));
         }
     }
+    let missing = p.real_line.iter().filter(|v| v.is_none()).count();
+    if missing > 0 {
+        out.push_str(&format!(
+            "  {missing} of {} grid points on R have no value (nan): the norm inside the grid and the tail zeros are over the other points only\n",
+            p.grid.len()
+        ));
+    }
     out.push_str(&format!(
         "  L2 norm (independent quadrature)       {:.15} (tail {}; inside the grid {:.12})\n",
         l.norm,
