@@ -1,19 +1,24 @@
 //! The `regwave` command line: parses arguments into the library's requests
-//! ([`regwave::output::commands`]), prints what they return, draws progress bars, and maps errors
-//! to exit codes (2: bad input, 1: a computation failed or a check did not pass).
+//! ([`regwave::output::commands`]), prints what they return, draws progress (a bar when stderr is
+//! a terminal, else a heartbeat line every 10 s once work runs that long), stops cleanly on
+//! SIGINT and SIGTERM (exit codes 130 and 143), and maps errors to exit codes (2: bad input, 1: a
+//! computation failed or a check did not pass).
 
 use clap::{Args, Parser, Subcommand};
 use indicatif::{ProgressBar, ProgressStyle};
 use regwave::checks::audit::AuditError;
 use regwave::eigenfunction::profile::ProfileError;
 use regwave::input::selection::SelectionError;
-use regwave::operator::spectrum::SpectrumError;
 use regwave::output::commands::{self as run, CommandError, Outcome};
 use regwave::output::files::FileError;
 use regwave::precision::PrecisionError;
-use regwave::progress::{Progress, Stage};
+use regwave::progress::{Heartbeat, Observer, Progress, Stage};
 use std::io::IsTerminal;
 use std::process::ExitCode;
+use std::time::Duration;
+
+/// Interval of the heartbeat lines when no progress bar is drawn.
+const HEARTBEAT: Duration = Duration::from_secs(10);
 
 #[derive(Parser)]
 #[command(
@@ -109,6 +114,8 @@ struct Json {
 }
 
 fn main() -> ExitCode {
+    #[cfg(unix)]
+    stop_cleanly_on_signals();
     match execute(Cli::parse().command) {
         Ok(()) => ExitCode::SUCCESS,
         Err(e) => {
@@ -121,13 +128,17 @@ fn main() -> ExitCode {
 fn execute(command: Command) -> Result<(), CommandError> {
     match command {
         Command::Families { json } => show(json, &run::families()),
-        Command::Spectrum { request, json } => show(json, &run::spectrum(&request)?),
-        Command::Periods { request, json } => show(json, &run::periods(&request)?),
-        Command::Attractors { request, json } => show(json, &run::attractors(&request)?),
-        Command::Check { request, json } => show(json, &run::check(&request)?),
+        Command::Spectrum { request, json } => {
+            barless("spectrum", json, || run::spectrum(&request))
+        }
+        Command::Periods { request, json } => barless("periods", json, || run::periods(&request)),
+        Command::Attractors { request, json } => {
+            barless("attractors", json, || run::attractors(&request))
+        }
+        Command::Check { request, json } => barless("check", json, || run::check(&request)),
         Command::Build { request, json } => {
             let bar = progress_bar(json.json || request.digits <= 16, "build");
-            let outcome = run::build(&request, &|p: &Progress| tick(&bar, p))?;
+            let outcome = observed("build", &bar, |observe| run::build(&request, observe))?;
             bar.finish_and_clear();
             if json.json {
                 show(json, &outcome)?;
@@ -137,7 +148,7 @@ fn execute(command: Command) -> Result<(), CommandError> {
         }
         Command::Audit { request, json } => {
             let bar = progress_bar(json.json, "audit");
-            let outcome = run::audit(&request, &|p: &Progress| tick(&bar, p))?;
+            let outcome = observed("audit", &bar, |observe| run::audit(&request, observe))?;
             bar.finish_and_clear();
             show(json, &outcome)?;
             if !json.json {
@@ -151,19 +162,103 @@ fn execute(command: Command) -> Result<(), CommandError> {
                 run::TOUR_FAMILIES.join(", ")
             );
             let bar = progress_bar(false, "tour");
-            let observe = |p: &Progress| {
-                tick(&bar, p);
-                if matches!(p.stage, Stage::FamilyAudited(_)) && p.done == run::TOUR_FAMILIES.len()
-                {
-                    bar.suspend(|| eprintln!("regwave tour: the high-precision eigenfunction ..."));
-                }
-            };
-            let outcome = run::tour(&request, &observe)?;
+            let outcome = observed("tour", &bar, |observe| {
+                run::tour(&request, &|p: &Progress| {
+                    observe(p);
+                    if matches!(p.stage, Stage::FamilyAudited(_))
+                        && p.done == run::TOUR_FAMILIES.len()
+                    {
+                        bar.suspend(|| {
+                            eprintln!("regwave tour: the high-precision eigenfunction ...")
+                        });
+                    }
+                })
+            })?;
             bar.finish_and_clear();
             wrote("tour", &outcome);
             Ok(())
         }
     }
+}
+
+/// Runs a command that reports no stages (so draws no bar, only the heartbeat) and shows its
+/// outcome.
+fn barless(
+    label: &str,
+    json: Json,
+    work: impl FnOnce() -> Result<Outcome, CommandError>,
+) -> Result<(), CommandError> {
+    show(json, &observed(label, &ProgressBar::hidden(), |_| work())?)
+}
+
+/// Runs `work` with an observer that draws `bar` and, while `bar` is hidden (stderr not a
+/// terminal, or quiet output), a heartbeat: a line on stderr every [`HEARTBEAT`] once the work
+/// has run that long ("regwave build: still working, 20 s; last finished: modulus (1/2)").
+fn observed<T>(label: &str, bar: &ProgressBar, work: impl FnOnce(Observer<'_>) -> T) -> T {
+    /// Stops the heartbeat also when the work unwinds, so that the scope can end.
+    struct Stop<'a>(&'a Heartbeat);
+    impl Drop for Stop<'_> {
+        fn drop(&mut self) {
+            self.0.stop();
+        }
+    }
+    let heartbeat = Heartbeat::new(HEARTBEAT);
+    std::thread::scope(|s| {
+        if bar.is_hidden() {
+            s.spawn(|| {
+                while let Some(line) = heartbeat.next_line() {
+                    eprintln!("regwave {label}: {line}");
+                }
+            });
+        }
+        let _stop = Stop(&heartbeat);
+        work(&|p: &Progress| {
+            tick(bar, p);
+            heartbeat.observe(p);
+        })
+    })
+}
+
+/// SIGINT and SIGTERM stop the program cleanly: a set of outputs being written is first
+/// completed or rolled back ([`regwave::output::files::try_stop_writing`]), so neither a
+/// partial set nor a staging folder is left; then one line on stderr and exit code 128 + the
+/// signal (130, 143). A second signal while waiting for the write stops at once.
+#[cfg(unix)]
+fn stop_cleanly_on_signals() {
+    use signal_hook::consts::{SIGINT, SIGTERM};
+    let Ok(mut signals) = signal_hook::iterator::Signals::new([SIGINT, SIGTERM]) else {
+        return;
+    };
+    std::thread::spawn(move || {
+        let Some(signal) = signals.forever().next() else {
+            return;
+        };
+        let mut whole = true;
+        while !regwave::output::files::try_stop_writing() {
+            if signals.pending().next().is_some() {
+                whole = false;
+                break;
+            }
+            std::thread::sleep(Duration::from_millis(10));
+        }
+        let name = if signal == SIGINT {
+            "SIGINT"
+        } else {
+            "SIGTERM"
+        };
+        // Over a progress bar on a terminal: clear its line first.
+        let clear = if std::io::stderr().is_terminal() {
+            "\r\x1b[2K"
+        } else {
+            ""
+        };
+        if whole {
+            eprintln!("{clear}regwave: stopped by {name}; no partial outputs left");
+        } else {
+            eprintln!("{clear}regwave: stopped by {name} while moving outputs in; they may be incomplete (the old files are in the hidden staging folder)");
+        }
+        std::process::exit(128 + signal);
+    });
 }
 
 /// Prints the JSON document or the text. A reader that stops early (`| head`) is not an error.
@@ -214,12 +309,10 @@ fn tick(bar: &ProgressBar, p: &Progress) {
 
 /// 2 for bad input, 1 for a computation that failed or a check that did not pass.
 fn exit_code(e: &CommandError) -> u8 {
-    use CommandError as E;
-    match e {
-        E::Precision(_) | E::Selection(_) | E::Grid(_) | E::Files(_) | E::NoTarget => 2,
-        E::Spectrum(SpectrumError::EmptyLevels | SpectrumError::BasisTooSmall { .. }) => 2,
-        E::Profile(p) | E::Audit(AuditError::Profile(p)) if p.is_input() => 2,
-        _ => 1,
+    if e.is_input() {
+        2
+    } else {
+        1
     }
 }
 

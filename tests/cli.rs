@@ -486,19 +486,31 @@ fn audit_and_check_json_contracts() {
     ] {
         assert!(dir.join(f).is_file(), "missing {f}");
     }
-    // Without --force an existing report is not replaced.
-    rejects(
-        &[
-            "audit",
-            "--family",
-            "P2",
-            "--levels",
-            "0..2",
-            "--out",
-            dir.to_str().unwrap(),
-        ],
-        "--force",
-    );
+    // Without --force an existing report is not replaced, nor an existing figure (refused
+    // before the work, the figure untouched).
+    let again = [
+        "audit",
+        "--family",
+        "P2",
+        "--levels",
+        "0..2",
+        "--out",
+        dir.to_str().unwrap(),
+    ];
+    rejects(&again, "audit.md exists; use --force");
+    for f in [
+        "audit.md",
+        "audit.json",
+        "levels.csv",
+        "profiles.csv",
+        "nu_scan.csv",
+        "strip.csv",
+    ] {
+        std::fs::remove_file(dir.join(f)).unwrap();
+    }
+    let figure = std::fs::read(dir.join("profiles-P2.svg")).unwrap();
+    rejects(&again, "profiles-P2.svg exists; use --force");
+    assert_eq!(std::fs::read(dir.join("profiles-P2.svg")).unwrap(), figure);
     let o = regwave(&["check", "--family", "dP3", "--level", "1", "--json"]);
     assert!(o.status.success(), "{}", stderr(&o));
     let c: serde_json::Value = serde_json::from_slice(&o.stdout).unwrap();
@@ -633,7 +645,7 @@ fn bad_moduli_digits_and_levels() {
     );
     rejects(
         &["periods", "--family", "F0", "--modulus", "inf"],
-        "not finite",
+        "not a finite number",
     );
     rejects(
         &["periods", "--family", "F0", "--modulus", "nan"],
@@ -834,6 +846,31 @@ fn build_refuses_bad_input() {
         .parse()
         .unwrap();
     assert!(distance > NOT_AN_INTEGER);
+    // A dangling symlink at an output name is an existing output: refused without --force,
+    // and its target never created; with --force the link itself is replaced.
+    let linked = dir.join("linked");
+    std::fs::create_dir_all(&linked).unwrap();
+    #[cfg(unix)]
+    {
+        std::os::unix::fs::symlink(dir.join("nowhere"), linked.join("psi.json")).unwrap();
+        let quick = [
+            "build",
+            "--family",
+            "F0",
+            "--level",
+            "0",
+            "--grid=-2:2:21",
+            "--out",
+            linked.to_str().unwrap(),
+        ];
+        rejects(&quick, "psi.json exists; use --force");
+        let o = regwave(&[&quick[..], &["--force"]].concat());
+        assert!(o.status.success(), "{}", stderr(&o));
+        assert!(std::fs::symlink_metadata(linked.join("psi.json"))
+            .unwrap()
+            .is_file());
+        assert!(!dir.join("nowhere").exists());
+    }
     let _ = std::fs::remove_dir_all(&dir);
 }
 

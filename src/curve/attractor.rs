@@ -61,6 +61,29 @@ pub enum AttractorError {
     /// The iteration did not converge.
     #[error("the root of ν = {target} did not converge (last step {step:e})")]
     NoConvergence { target: i64, step: f64 },
+    /// A level above [`MAX_LEVEL`].
+    #[error("level {level} is beyond the levels regwave solves (0 to {max}): above them the branch points of the curve crowd closer than the double-precision layout of the β cycle resolves for some families")]
+    BeyondReach { level: usize, max: usize },
+}
+
+/// The highest level whose attractor modulus is solved: levels 0..=40 of all 15 families solve
+/// at 16 and 40 digits (measured with `attractors --levels 0..40` per family); above, the β
+/// loop's double-precision layout fails for some families (P2 from level 42: two branch points
+/// near ln a closer than 1e-12; F0 at levels 44 and 48). The series at a = ∞ is to extend it.
+pub const MAX_LEVEL: usize = 40;
+
+/// Checks that every level of `levels` is within [`MAX_LEVEL`].
+///
+/// # Errors
+/// [`AttractorError::BeyondReach`] naming the highest level asked for.
+pub fn check_reach(levels: &std::ops::RangeInclusive<usize>) -> Result<(), AttractorError> {
+    match *levels.end() {
+        level if level > MAX_LEVEL => Err(AttractorError::BeyondReach {
+            level,
+            max: MAX_LEVEL,
+        }),
+        _ => Ok(()),
+    }
 }
 
 /// One attractor modulus.
@@ -339,6 +362,7 @@ pub fn solve_levels_at(
     digits: u32,
     bits: u32,
 ) -> Result<Vec<Attractor>, AttractorError> {
+    check_reach(&levels)?;
     let mut fam = HigherNormalFunction::new(laurent)?;
     let check_bits = confirming_bits(bits);
     // Phase 1 (sequential, double precision): each level's root seeds the next guess.

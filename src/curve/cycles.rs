@@ -37,7 +37,7 @@ pub enum CycleError {
     #[error(transparent)]
     Cover(#[from] CoverError),
     /// The branch points do not split into two inside and two outside the α circle.
-    #[error("no β cycle: the branch points do not straddle the α circle |x| = e^{z_alpha} (found {inside} inside, {outside} outside)")]
+    #[error("no β cycle: the branch points do not straddle the α circle |x| = e^{z_alpha} (found {inside} inside, {outside} outside); this modulus is beyond what the double-precision layout of the cycles resolves, i.e. beyond regwave's current range")]
     NoBetaCycle {
         z_alpha: f64,
         inside: usize,

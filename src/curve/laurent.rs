@@ -278,6 +278,53 @@ impl Laurent {
         }
         (z, self.hamiltonian(z).0)
     }
+
+    /// The spectral threshold `min_{x,y>0} φ(x, y)` at `bits` bits: the f64 minimiser of
+    /// [`Laurent::classical_minimum`] refined by Newton's method on ∇H = 0 at `bits` bits
+    /// (quadratic convergence from ~1e-15: ⌈log₂(bits/40)⌉ + 2 steps). The value at the minimum
+    /// is stationary, so it is accurate to a few units in the last place. Used to decide,
+    /// by an exact comparison at the working precision, whether a modulus lies above it.
+    pub fn threshold_at(&self, bits: u32) -> rug::Float {
+        use rug::Float;
+        let ([r0, p0], _) = self.classical_minimum();
+        let mut z = [Float::with_val(bits, r0), Float::with_val(bits, p0)];
+        let steps = (bits as f64 / 40.0).log2().ceil().max(0.0) as usize + 2;
+        let mut h = Float::new(bits);
+        for k in 0..=steps {
+            h = Float::new(bits);
+            let mut g = [Float::new(bits), Float::new(bits)];
+            let mut m = [
+                [Float::new(bits), Float::new(bits)],
+                [Float::new(bits), Float::new(bits)],
+            ];
+            for &([m1, m2], c) in &self.terms {
+                let e = Float::with_val(bits, &z[0] * m1) + Float::with_val(bits, &z[1] * m2);
+                let w = e.exp() * c;
+                let mm = [m1, m2];
+                for i in 0..2 {
+                    g[i] += Float::with_val(bits, &w * mm[i]);
+                    for j in 0..2 {
+                        m[i][j] += Float::with_val(bits, &w * (mm[i] * mm[j]));
+                    }
+                }
+                h += w;
+            }
+            if k == steps {
+                break;
+            }
+            let det = Float::with_val(bits, &m[0][0] * &m[1][1])
+                - Float::with_val(bits, &m[0][1] * &m[1][0]);
+            let d0 = (Float::with_val(bits, &m[1][1] * &g[0])
+                - Float::with_val(bits, &m[0][1] * &g[1]))
+                / &det;
+            let d1 = (Float::with_val(bits, &m[0][0] * &g[1])
+                - Float::with_val(bits, &m[1][0] * &g[0]))
+                / &det;
+            z[0] -= d0;
+            z[1] -= d1;
+        }
+        h
+    }
 }
 
 impl fmt::Display for Laurent {

@@ -3,7 +3,12 @@
 //! exactly, rounded only to the working precision of a computation ([`Grid::point`]) and
 //! written back exactly ([`Grid::point_text`]). Double-precision work uses the same points
 //! rounded to f64 ([`Grid::values`]).
+//!
+//! # Domain
+//! Ends in the strict decimal syntax of [`crate::input::numbers`], |R| ≤ [`MAX_END`], R0 < R1,
+//! 2 ≤ N ≤ [`MAX_POINTS`], and a step that separates neighbouring points in double precision.
 
+use crate::input::numbers::decimal_syntax;
 use rug::ops::Pow;
 use rug::{Float, Integer, Rational};
 use thiserror::Error;
@@ -16,6 +21,13 @@ pub enum GridError {
     #[error("{reason}")]
     Invalid { reason: String },
 }
+
+/// The largest |R0|, |R1| a grid may have (the parse domain; how far ψ can actually be sampled
+/// is decided when the profile is planned, from its decay).
+pub const MAX_END: f64 = 1e6;
+
+/// The most points a grid may have.
+pub const MAX_POINTS: usize = 1_000_000;
 
 /// A regular grid `R0:R1:N` of real parts (N ≥ 2 points, R0 < R1).
 #[derive(Debug, Clone, PartialEq)]
@@ -64,14 +76,17 @@ impl Grid {
             ));
         }
         let num = |s: &str| {
-            let f = s
-                .trim()
+            let t = decimal_syntax(s)
+                .map_err(|why| format!("cannot read the grid {text:?}: {s:?}: {why}"))?;
+            let f = t
                 .parse::<f64>()
                 .map_err(|_| format!("cannot read the grid {text:?}: {s:?} is not a number"))?;
-            if !f.is_finite() {
-                return Err(format!("the grid {text:?} has a non-finite end"));
+            if !f.is_finite() || f.abs() > MAX_END {
+                return Err(format!(
+                    "the grid {text:?} has an end beyond ±{MAX_END:e}, far outside any reach of ψ"
+                ));
             }
-            let exact = decimal_rational(s.trim())
+            let exact = decimal_rational(t)
                 .ok_or_else(|| format!("cannot read the grid {text:?}: {s:?} is not a number"))?;
             Ok((f, exact))
         };
@@ -82,14 +97,21 @@ impl Grid {
                 parts[2]
             )
         })?;
-        if start_exact >= end_exact || start >= end {
+        if start_exact >= end_exact {
             return Err(format!(
                 "the grid {text:?} is empty or reversed: R0 must be below R1"
             ));
         }
-        if !(2..=1_000_000).contains(&points) {
+        if !(2..=MAX_POINTS).contains(&points) {
             return Err(format!(
-                "the grid {text:?} needs between 2 and 1000000 points"
+                "the grid {text:?} needs between 2 and {MAX_POINTS} points"
+            ));
+        }
+        // Neighbouring points must stay distinct in double precision.
+        let step = (end - start) / (points - 1) as f64;
+        if step <= 4.0 * f64::EPSILON * start.abs().max(end.abs()) {
+            return Err(format!(
+                "the grid {text:?} is too fine: its step {step:e} does not separate the points in double precision"
             ));
         }
         Ok(Grid {
@@ -222,7 +244,21 @@ mod tests {
     #[test]
     fn malformed_grids_are_refused() {
         for bad in [
-            "", "1:2", "a:2:3", "2:1:3", "0:1:1", "0:1:x", "inf:1:3", "0:nan:3",
+            "",
+            "1:2",
+            "a:2:3",
+            "2:1:3",
+            "0:1:1",
+            "0:1:x",
+            "inf:1:3",
+            "0:nan:3",
+            "-1e308:1e308:3",
+            "1e300:1e301:3",
+            "-1 0:10:3",
+            "0:1_0:3",
+            "0:1:1000001",
+            "1:1.0000000000000001:3",
+            "0:1e99999999:3",
         ] {
             assert!(Grid::parse(bad).is_err(), "{bad:?}");
         }

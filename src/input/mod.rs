@@ -5,4 +5,5 @@ pub mod coefficients;
 pub mod grid;
 pub mod numbers;
 pub mod selection;
+mod tokens;
 pub mod vertices;

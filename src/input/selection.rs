@@ -14,7 +14,7 @@
 use crate::curve::laurent::{Laurent, LaurentError};
 use crate::input::{coefficients, vertices};
 use crate::lattice::catalogue::{self, CatalogueError, Family};
-use crate::lattice::polygon::{Mat2, Polygon, PolygonError};
+use crate::lattice::polygon::{Mat2, Polygon, PolygonError, MAX_REFLEXIVE_BOUNDARY};
 use thiserror::Error;
 
 /// A selection that cannot be used.
@@ -39,7 +39,7 @@ pub enum SelectionError {
         "cannot read the modulus {text:?}: {reason}; give a finite decimal number such as 17.8466"
     )]
     Modulus { text: String, reason: String },
-    #[error("the modulus {modulus} is not above the spectral threshold {threshold:.6} (the minimum of phi on x, y > 0); eigenvalues and attractor moduli lie above it")]
+    #[error("the modulus {modulus} is not above the spectral threshold {threshold} (the minimum of phi on x, y > 0, compared at the working precision); eigenvalues and attractor moduli lie above it")]
     BelowThreshold { modulus: String, threshold: f64 },
 }
 
@@ -81,6 +81,16 @@ pub fn resolve(
         }
         (None, Some(text)) => {
             let points = vertices::parse_vertices(text)?;
+            // Fast path: too many distinct points for any reflexive polygon.
+            let mut distinct = points.clone();
+            distinct.sort_unstable();
+            distinct.dedup();
+            if distinct.len() > MAX_REFLEXIVE_BOUNDARY {
+                return Err(PolygonError::TooManyPoints {
+                    count: distinct.len(),
+                }
+                .into());
+            }
             let p = Polygon::from_vertex_list(&points)?;
             p.check_reflexive()?;
             let (p, transform) = if p.is_strip() {

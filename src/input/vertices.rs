@@ -1,6 +1,7 @@
 //! Vertex lists read from text, e.g. `"(1,0),(0,1),(-1,-1)"`: a tokenizer and a small
 //! recursive-descent parser that names the vertex and the token that failed.
 
+use crate::input::tokens::{tokenize, Token};
 use crate::lattice::polygon::{LatticePoint, PolygonError};
 
 /// Parses a vertex list such as `"(1,0),(0,1),(-1,-1)"`; whitespace anywhere between tokens
@@ -20,48 +21,6 @@ pub fn parse_vertices(text: &str) -> Result<Vec<LatticePoint>, PolygonError> {
         text: text.to_string(),
         reason,
     })
-}
-
-/// A token with its 1-based character position.
-#[derive(Debug, Clone, PartialEq)]
-enum Token {
-    Open(usize),
-    Close(usize),
-    Comma(usize),
-    Word(usize, String),
-}
-
-impl Token {
-    fn describe(&self) -> String {
-        match self {
-            Token::Open(at) => format!("`(` at character {at}"),
-            Token::Close(at) => format!("`)` at character {at}"),
-            Token::Comma(at) => format!("`,` at character {at}"),
-            Token::Word(at, w) => format!("`{w}` at character {at}"),
-        }
-    }
-}
-
-fn tokenize(text: &str) -> Vec<Token> {
-    let mut tokens = Vec::new();
-    let mut word: Option<(usize, String)> = None;
-    for (i, c) in text.chars().enumerate() {
-        let at = i + 1;
-        let delimiter = match c {
-            '(' => Some(Token::Open(at)),
-            ')' => Some(Token::Close(at)),
-            ',' => Some(Token::Comma(at)),
-            _ => None,
-        };
-        if delimiter.is_some() || c.is_whitespace() {
-            tokens.extend(word.take().map(|(start, w)| Token::Word(start, w)));
-            tokens.extend(delimiter);
-        } else {
-            word.get_or_insert_with(|| (at, String::new())).1.push(c);
-        }
-    }
-    tokens.extend(word.map(|(start, w)| Token::Word(start, w)));
-    tokens
 }
 
 fn parse_list(tokens: &[Token]) -> Result<Vec<LatticePoint>, String> {
@@ -88,13 +47,13 @@ fn parse_list(tokens: &[Token]) -> Result<Vec<LatticePoint>, String> {
 }
 
 /// `( integer , integer )`, returning the point and the remaining tokens.
-fn parse_point(tokens: &[Token]) -> Result<(LatticePoint, &[Token]), String> {
+pub(crate) fn parse_point(tokens: &[Token]) -> Result<(LatticePoint, &[Token]), String> {
     let rest = expect(tokens, "`(`", |t| matches!(t, Token::Open(_)))?;
-    let (x, rest) = parse_coordinate(rest, "first")?;
+    let (x, rest) = parse_integer(rest, "first coordinate")?;
     let rest = expect(rest, "`,` after the first coordinate", |t| {
         matches!(t, Token::Comma(_))
     })?;
-    let (y, rest) = parse_coordinate(rest, "second")?;
+    let (y, rest) = parse_integer(rest, "second coordinate")?;
     let rest = expect(
         rest,
         "`)` after the second coordinate (a vertex has two coordinates)",
@@ -103,7 +62,7 @@ fn parse_point(tokens: &[Token]) -> Result<(LatticePoint, &[Token]), String> {
     Ok(([x, y], rest))
 }
 
-fn expect<'a>(
+pub(crate) fn expect<'a>(
     tokens: &'a [Token],
     what: &str,
     ok: impl Fn(&Token) -> bool,
@@ -115,24 +74,23 @@ fn expect<'a>(
     }
 }
 
-fn parse_coordinate<'a>(tokens: &'a [Token], which: &str) -> Result<(i64, &'a [Token]), String> {
+/// An integer word (signs `+`, `-`, `−`), named `which` in messages.
+pub(crate) fn parse_integer<'a>(
+    tokens: &'a [Token],
+    which: &str,
+) -> Result<(i64, &'a [Token]), String> {
     match tokens {
         [Token::Word(at, w), rest @ ..] => {
             let normalized = w.replacen('−', "-", 1);
             let value = normalized.parse::<i64>().map_err(|e| match e.kind() {
                 std::num::IntErrorKind::PosOverflow | std::num::IntErrorKind::NegOverflow => {
-                    format!("the {which} coordinate `{w}` at character {at} is out of range")
+                    format!("the {which} `{w}` at character {at} is out of range")
                 }
-                _ => format!("the {which} coordinate `{w}` at character {at} is not an integer"),
+                _ => format!("the {which} `{w}` at character {at} is not an integer"),
             })?;
             Ok((value, rest))
         }
-        [t, ..] => Err(format!(
-            "expected the {which} coordinate, found {}",
-            t.describe()
-        )),
-        [] => Err(format!(
-            "expected the {which} coordinate, found the end of the text"
-        )),
+        [t, ..] => Err(format!("expected the {which}, found {}", t.describe())),
+        [] => Err(format!("expected the {which}, found the end of the text")),
     }
 }

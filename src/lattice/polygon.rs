@@ -54,6 +54,10 @@ pub type Mat2 = [[i64; 2]; 2];
 /// product of two coordinate differences far from `i64` overflow.
 pub const MAX_COORDINATE: i64 = 1_000_000;
 
+/// The most boundary lattice points a reflexive polygon has: B(Δ) + B(Δ°) = 12 with B(Δ°) ≥ 3
+/// ("Lattice polygons and the number 12", Amer. Math. Monthly 107 (2000)); attained by P2*.
+pub const MAX_REFLEXIVE_BOUNDARY: usize = 9;
+
 /// [`Polygon::check_reflexive`] lists the interior points of a non-reflexive polygon only
 /// up to this many; beyond it the error carries the count alone.
 pub const INTERIOR_LIST_LIMIT: u64 = 10_000;
@@ -84,6 +88,9 @@ pub enum PolygonError {
     /// describe a convex polygon.
     #[error("the vertex list is not convex: {point:?} lies strictly inside the polygon spanned by the other points")]
     NotConvex { point: LatticePoint },
+    /// More distinct points than any reflexive polygon has on its boundary.
+    #[error("not reflexive: the list holds {count} distinct lattice points, but a reflexive polygon has at most {MAX_REFLEXIVE_BOUNDARY} boundary lattice points (and a vertex list only boundary points)")]
+    TooManyPoints { count: usize },
     /// Not reflexive, with more interior points than [`INTERIOR_LIST_LIMIT`] (not listed).
     #[error("not reflexive: a reflexive polygon has exactly one interior lattice point, this one has {count} (too many to list)")]
     TooManyInteriorPoints { count: u64 },
@@ -135,8 +142,15 @@ impl Polygon {
     /// As [`Polygon::from_points`], and [`PolygonError::NotConvex`].
     pub fn from_vertex_list(points: &[LatticePoint]) -> Result<Self, PolygonError> {
         let p = Polygon::from_points(points)?;
-        let boundary = p.boundary_points();
-        if let Some(q) = points.iter().find(|q| !boundary.contains(q)) {
+        // O(points × vertices): a point is on the boundary iff it lies on one of the edges.
+        let on_boundary = |q: &LatticePoint| {
+            p.edge_pairs().any(|(a, b)| {
+                let (d, e) = ([b[0] - a[0], b[1] - a[1]], [q[0] - a[0], q[1] - a[1]]);
+                let along = d[0] * e[0] + d[1] * e[1];
+                cross(d, e) == 0 && (0..=d[0] * d[0] + d[1] * d[1]).contains(&along)
+            })
+        };
+        if let Some(q) = points.iter().find(|q| !on_boundary(q)) {
             return Err(PolygonError::NotConvex { point: *q });
         }
         Ok(p)

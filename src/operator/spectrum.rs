@@ -96,7 +96,7 @@ impl Default for SpectrumOptions {
 
 /// The next basis size of the convergence ladder, ⌈3N/2⌉.
 pub fn next_basis(n: usize) -> usize {
-    (3 * n).div_ceil(2)
+    n.saturating_add(n.div_ceil(2))
 }
 
 /// One level of the truncated problem.
@@ -190,9 +190,62 @@ pub fn truncated_eigenvalues(
     Ok(solve_basis(laurent, frame, n, count, digits, None)?.values)
 }
 
+/// The basis sizes [`solve`] may use with `options`: the ladder N, ⌈3N/2⌉, … while within
+/// `max_basis` (at least two rungs), saturating instead of overflowing for absurd inputs.
+pub fn ladder(options: &SpectrumOptions) -> Vec<usize> {
+    let mut bases = vec![options.basis];
+    let mut n = options.basis.max(1);
+    loop {
+        n = next_basis(n);
+        bases.push(n);
+        if next_basis(n) > options.max_basis || n == usize::MAX {
+            return bases;
+        }
+    }
+}
+
+/// Checks the options of [`solve`] before any work: a non-empty level range and a first basis
+/// of at least [`minimum_basis`].
+///
+/// # Errors
+/// [`SpectrumError::EmptyLevels`], [`SpectrumError::BasisTooSmall`].
+pub fn validate(options: &SpectrumOptions) -> Result<(), SpectrumError> {
+    let (lo, hi) = (*options.levels.start(), *options.levels.end());
+    if lo > hi {
+        return Err(SpectrumError::EmptyLevels);
+    }
+    let needed = minimum_basis(hi);
+    if options.basis < needed {
+        return Err(SpectrumError::BasisTooSmall {
+            basis: options.basis,
+            level: hi,
+            needed,
+        });
+    }
+    Ok(())
+}
+
+/// An upper estimate of the peak memory of [`solve`] in bytes: the largest rung's N×N matrix of
+/// MPFR numbers (real and imaginary parts, each 32 bytes of header plus its limbs at the
+/// working precision of that rung) and the block of iteration vectors. Computed before
+/// anything is allocated, so that a request the machine cannot hold is refused up front.
+pub fn peak_memory(laurent: &Laurent, options: &SpectrumOptions) -> f64 {
+    let frame = frame(laurent, options.squeeze);
+    let probe = frame.terms(laurent, 64);
+    let n = *ladder(options).last().expect("at least two rungs");
+    let bits = working_bits(&probe, n.min(1 << 40), frame.threshold, options.digits);
+    let per_number = 32.0 + 8.0 * f64::from(bits.div_ceil(64));
+    let n = n as f64;
+    let count = (*options.levels.end() as f64) + 1.0;
+    per_number * (2.0 * n * n + 6.0 * count * n)
+}
+
 /// Minimum basis size for the levels wanted: the block iteration needs room above them.
 pub fn minimum_basis(top_level: usize) -> usize {
-    2 * (top_level + 1) + 8
+    top_level
+        .saturating_add(1)
+        .saturating_mul(2)
+        .saturating_add(8)
 }
 
 /// Eigenvalues (and eigenvectors) of the ħ = 2π quantum curve of φ for the requested levels.
@@ -216,18 +269,9 @@ pub fn minimum_basis(top_level: usize) -> usize {
 /// assert!((e0 - 17.846643118044799).abs() < 1e-9 && s.levels[0].error_estimate < 1e-9);
 /// ```
 pub fn solve(laurent: &Laurent, options: &SpectrumOptions) -> Result<Spectrum, SpectrumError> {
+    validate(options)?;
     let (lo, hi) = (*options.levels.start(), *options.levels.end());
-    if lo > hi {
-        return Err(SpectrumError::EmptyLevels);
-    }
     let needed = minimum_basis(hi);
-    if options.basis < needed {
-        return Err(SpectrumError::BasisTooSmall {
-            basis: options.basis,
-            level: hi,
-            needed,
-        });
-    }
     let frame = frame(laurent, options.squeeze);
     let count = hi + 1;
     let mut n = options.basis;

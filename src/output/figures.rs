@@ -56,6 +56,15 @@ pub struct FigureFormats {
     pub pdf: bool,
 }
 
+impl FigureFormats {
+    /// The file extensions written for each figure, in order.
+    fn extensions(&self) -> impl Iterator<Item = &'static str> {
+        std::iter::once("svg")
+            .chain(self.png.then_some("png"))
+            .chain(self.pdf.then_some("pdf"))
+    }
+}
+
 /// One figure: its file stem, SVG document and a caption for reports.
 #[derive(Debug, Clone)]
 pub struct Figure {
@@ -113,7 +122,7 @@ pub fn profiles_with(
         })
         .collect();
     Ok(Figure {
-        name: format!("profiles-{}", file_id(family)),
+        name: stem("profiles", family),
         svg: plot::stacked_profiles(
             options
                 .title(format!("{family}: eigenfunctions on ℝ"))
@@ -167,7 +176,7 @@ pub fn residuals_with(
     let floor =
         (!bits.is_empty() && bits.iter().all(|&b| b == bits[0])).then(|| unit_roundoff(bits[0]));
     Ok(Figure {
-        name: format!("residual-{}", file_id(family)),
+        name: stem("residual", family),
         svg: plot::residual_plot(
             options
                 .title(format!("{family}: eigen-equation residual"))
@@ -206,7 +215,7 @@ pub fn nu_with(family: &str, audit: &Audit, options: &FigureOptions) -> Result<F
             .collect(),
     };
     Ok(Figure {
-        name: format!("nu-{}", file_id(family)),
+        name: stem("nu", family),
         svg: plot::nu_plot(
             options
                 .title(format!("{family}: higher normal function ν(a)"))
@@ -248,7 +257,7 @@ pub fn agreement_with(
     let names: Vec<&str> = audits.iter().map(|a| a.0).collect();
     Ok(Figure {
         name: if names.len() == 1 {
-            format!("agreement-{}", file_id(names[0]))
+            stem("agreement", names[0])
         } else {
             "agreement".into()
         },
@@ -328,7 +337,7 @@ pub fn strip_with(
     };
     let level = p.level.map(|n| format!(", n = {n}")).unwrap_or_default();
     Ok(Figure {
-        name: format!("strip-{}", file_id(family)),
+        name: stem("strip", family),
         svg: plot::strip_heatmap(
             options
                 .title(format!("{family}{level}: ψ over the strip"))
@@ -428,15 +437,38 @@ pub fn figure_files_in(
 ) -> Result<Vec<OutputFile>, PlotError> {
     let mut out = Vec::new();
     for f in figures {
-        out.push((format!("{}.svg", f.name), f.svg.clone().into_bytes()));
-        if formats.png {
-            out.push((format!("{}.png", f.name), plot::to_png(&f.svg, PNG_WIDTH)?));
-        }
-        if formats.pdf {
-            out.push((format!("{}.pdf", f.name), plot::to_pdf(&f.svg)?));
+        for extension in formats.extensions() {
+            let bytes = match extension {
+                "png" => plot::to_png(&f.svg, PNG_WIDTH)?,
+                "pdf" => plot::to_pdf(&f.svg)?,
+                _ => f.svg.clone().into_bytes(),
+            };
+            out.push((format!("{}.{extension}", f.name), bytes));
         }
     }
     Ok(out)
+}
+
+/// The kinds of figure of a one-family audit, as their file stems begin.
+const AUDIT_FIGURES: [&str; 5] = ["profiles", "residual", "nu", "strip", "agreement"];
+
+/// A figure's file stem: its kind and the family (`profiles-F0-dual`).
+fn stem(kind: &str, family: &str) -> String {
+    format!("{kind}-{}", file_id(family))
+}
+
+/// The file names of the figures of a one-family audit ([`family_figures_from`] and
+/// [`agreement_with`]) in `formats`: known before computing, so that existing files are refused
+/// before the work.
+pub fn audit_figure_names(family: &str, formats: &FigureFormats) -> Vec<String> {
+    AUDIT_FIGURES
+        .iter()
+        .flat_map(|kind| {
+            formats
+                .extensions()
+                .map(move |e| format!("{}.{e}", stem(kind, family)))
+        })
+        .collect()
 }
 
 /// Width of PNG figures in pixels.

@@ -105,6 +105,26 @@ pub struct Inputs<O: Serialize> {
     pub options: O,
 }
 
+/// A grid as read: its ends and step exactly (decimal text, or 40 significant digits where
+/// the step has no finite decimal expansion) and its point count.
+#[derive(Debug, Clone, Serialize)]
+pub struct GridRecord {
+    pub start: String,
+    pub end: String,
+    pub points: usize,
+}
+
+impl GridRecord {
+    /// The record of `grid`.
+    pub fn new(grid: &crate::input::grid::Grid) -> Self {
+        GridRecord {
+            start: grid.point_text(0, 40),
+            end: grid.point_text(grid.points - 1, 40),
+            points: grid.points,
+        }
+    }
+}
+
 /// A complex number as `{"re", "im"}` decimal strings.
 #[derive(Debug, Clone, Serialize)]
 pub struct ComplexText {
@@ -323,6 +343,9 @@ pub struct PathRecord {
 #[derive(Debug, Clone, Serialize)]
 pub struct PeriodsRecord {
     pub family: String,
+    /// The modulus as read, at the working precision (every digit).
+    #[serde(serialize_with = "crate::numerics::serial::float")]
+    pub modulus: rug::Float,
     pub omega_alpha: ComplexText,
     pub omega_beta: ComplexText,
     pub r_alpha: ComplexText,
@@ -342,11 +365,12 @@ pub const PERIODS_NOTE: &str = "numerical evidence: path integrals with a-priori
 
 impl PeriodsRecord {
     /// The record of a comparison, `digits` digits per value.
-    pub fn new(family: &str, c: &Comparison, digits: u32) -> Self {
+    pub fn new(family: &str, modulus: &rug::Float, c: &Comparison, digits: u32) -> Self {
         let p = &c.path;
         let cj = |z: &rug::Complex| ComplexText::new(z, digits);
         PeriodsRecord {
             family: family.to_string(),
+            modulus: modulus.clone(),
             omega_alpha: cj(&p.alpha.omega),
             omega_beta: cj(&p.beta.omega),
             r_alpha: cj(&p.alpha.regulator),

@@ -16,10 +16,10 @@ pub struct AttractorsRequest {
     #[cfg_attr(feature = "cli", command(flatten))]
     pub family: FamilyRequest,
     /// Levels: an inclusive range A..B or one level n.
-    #[cfg_attr(feature = "cli", arg(long, default_value = super::defaults::LEVELS))]
+    #[cfg_attr(feature = "cli", arg(long, default_value = super::defaults::LEVELS, allow_hyphen_values = true))]
     pub levels: String,
     /// Decimal digits wanted (8 to 1000).
-    #[cfg_attr(feature = "cli", arg(long, default_value_t = super::defaults::DIGITS))]
+    #[cfg_attr(feature = "cli", arg(long, default_value_t = super::defaults::DIGITS, allow_negative_numbers = true))]
     pub digits: u32,
 }
 
@@ -37,6 +37,7 @@ pub fn attractors(request: &AttractorsRequest) -> Result<Outcome, CommandError> 
     check_digits(request.digits)?;
     let sel = request.family.resolve()?;
     let levels = parse_levels(&request.levels)?;
+    attractor::check_reach(&levels)?;
     let start = Instant::now();
     let list = attractor::solve_levels(&sel.laurent, levels.clone(), request.digits)?;
     let elapsed = start.elapsed().as_secs_f64();

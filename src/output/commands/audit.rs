@@ -7,11 +7,9 @@ use crate::input::grid::Grid;
 use crate::input::numbers::parse_levels;
 use crate::input::selection::Selection;
 use crate::output::data;
-use crate::output::files::{
-    ensure_writable, file_stem, refuse_existing, write_all_atomic, OutputFile,
-};
+use crate::output::files::{file_stem, Destination, OutputFile, Replace};
 use crate::output::markdown::{audit_markdown, COLUMNS_NOTE};
-use crate::output::records::{pretty, AuditRecord, Document, Inputs};
+use crate::output::records::{pretty, AuditRecord, Document, GridRecord, Inputs};
 use crate::precision::check_digits;
 use crate::progress::Observer;
 use crate::TOOL_VERSION;
@@ -27,10 +25,10 @@ pub struct AuditRequest {
     #[cfg_attr(feature = "cli", command(flatten))]
     pub family: FamilyRequest,
     /// Levels: an inclusive range A..B or one level n.
-    #[cfg_attr(feature = "cli", arg(long, default_value = super::defaults::LEVELS))]
+    #[cfg_attr(feature = "cli", arg(long, default_value = super::defaults::LEVELS, allow_hyphen_values = true))]
     pub levels: String,
     /// Decimal digits (8 to 1000; 16 or less: double precision where it suffices).
-    #[cfg_attr(feature = "cli", arg(long, default_value_t = super::defaults::DIGITS))]
+    #[cfg_attr(feature = "cli", arg(long, default_value_t = super::defaults::DIGITS, allow_negative_numbers = true))]
     pub digits: u32,
     /// Grid of real parts R0:R1:N for the residual and the profiles.
     #[cfg_attr(
@@ -55,11 +53,40 @@ pub struct AuditRequest {
     pub no_titles: bool,
 }
 
+impl AuditRequest {
+    /// The formats of the figures asked for.
+    #[cfg(feature = "figures")]
+    fn formats(&self) -> crate::output::figures::FigureFormats {
+        crate::output::figures::FigureFormats {
+            png: self.png,
+            pdf: self.pdf,
+        }
+    }
+}
+
+/// The names of every file an audit of `family` writes: the report, the tables and (feature
+/// `figures`) the figures.
+fn audit_files(family: &str, request: &AuditRequest) -> Vec<String> {
+    let names = ["audit.md", "audit.json"]
+        .iter()
+        .chain(&DATA_FILES)
+        .map(|n| n.to_string());
+    #[cfg(feature = "figures")]
+    let names = names.chain(crate::output::figures::audit_figure_names(
+        family,
+        &request.formats(),
+    ));
+    #[cfg(not(feature = "figures"))]
+    let _ = (family, request);
+    names.collect()
+}
+
 #[derive(Serialize)]
 pub(crate) struct Options {
     pub levels: [usize; 2],
     pub digits: u32,
     pub grid: String,
+    pub grid_read: GridRecord,
 }
 
 /// Relative perturbation of the level-0 modulus for the negative control.
@@ -91,23 +118,22 @@ pub(crate) fn run_audit(
     Ok((audit, start.elapsed().as_secs_f64()))
 }
 
+/// The names of the tidy tables of an audit, in the order [`data_files`] gives them.
+pub(crate) const DATA_FILES: [&str; 4] = ["levels.csv", "profiles.csv", "nu_scan.csv", "strip.csv"];
+
 /// The tidy tables behind the figures and the report (see [`crate::output::data`]).
 pub(crate) fn data_files(audit: &Audit, strip: &data::StripSample) -> Vec<OutputFile> {
-    vec![
-        (
-            "levels.csv".into(),
-            data::levels(&audit.levels).into_bytes(),
-        ),
-        (
-            "profiles.csv".into(),
-            data::profiles(&audit.levels).into_bytes(),
-        ),
-        ("nu_scan.csv".into(), data::nu_scan(audit).into_bytes()),
-        (
-            "strip.csv".into(),
-            data::strip(&strip.re, &strip.im, &strip.values).into_bytes(),
-        ),
-    ]
+    let tables = [
+        data::levels(&audit.levels),
+        data::profiles(&audit.levels),
+        data::nu_scan(audit),
+        data::strip(&strip.re, &strip.im, &strip.values),
+    ];
+    DATA_FILES
+        .iter()
+        .zip(tables)
+        .map(|(name, table)| (name.to_string(), table.into_bytes()))
+        .collect()
 }
 
 /// The finding of an audit with unmatched levels.
@@ -143,14 +169,18 @@ pub fn audit(request: &AuditRequest, progress: Observer<'_>) -> Result<Outcome, 
     check_digits(request.digits)?;
     let sel = request.family.resolve()?;
     let levels = parse_levels(&request.levels)?;
+    crate::curve::attractor::check_reach(&levels)?;
     let grid = Grid::parse(&request.grid)?;
     let id = sel.family.id;
     let out = request
         .out
         .clone()
         .unwrap_or_else(|| PathBuf::from(format!("out/audit-{}", file_stem(id))));
-    refuse_existing(&out, &["audit.md", "audit.json"], request.replace)?;
-    ensure_writable(&out)?;
+    let destination = Destination::prepare(
+        &out,
+        &audit_files(id, request),
+        Replace::asked(request.replace),
+    )?;
     let (audit, elapsed) = run_audit(&sel, levels.clone(), request.digits, &grid, progress)?;
     let inputs = Inputs {
         family: request.family.inputs(&sel),
@@ -158,6 +188,7 @@ pub fn audit(request: &AuditRequest, progress: Observer<'_>) -> Result<Outcome, 
             levels: [*levels.start(), *levels.end()],
             digits: request.digits,
             grid: request.grid.clone(),
+            grid_read: GridRecord::new(&grid),
         },
     };
     let doc = Document::new(
@@ -176,7 +207,7 @@ pub fn audit(request: &AuditRequest, progress: Observer<'_>) -> Result<Outcome, 
     let mut files: Vec<OutputFile> = Vec::new();
     #[cfg(feature = "figures")]
     {
-        use crate::output::figures::{self, FigureFormats, FigureOptions};
+        use crate::output::figures::{self, FigureOptions};
         let options = FigureOptions {
             titles: !request.no_titles,
         };
@@ -185,16 +216,12 @@ pub fn audit(request: &AuditRequest, progress: Observer<'_>) -> Result<Outcome, 
         md.push_str(&crate::output::markdown::figure_links(&figures::captions(
             &figs,
         )));
-        let formats = FigureFormats {
-            png: request.png,
-            pdf: request.pdf,
-        };
-        files.extend(figures::figure_files_in(&figs, &formats)?);
+        files.extend(figures::figure_files_in(&figs, &request.formats())?);
     }
     files.extend(data_files(&audit, &strip));
     files.insert(0, ("audit.json".into(), json.clone().into_bytes()));
     files.insert(0, ("audit.md".into(), md.clone().into_bytes()));
-    write_all_atomic(&out, &files)?;
+    destination.write(&files)?;
     Ok(Outcome {
         json,
         text: md,

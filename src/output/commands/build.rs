@@ -5,8 +5,8 @@ use super::{CommandError, FamilyRequest, Outcome, TargetRequest};
 use crate::eigenfunction::profile::{self, ProfileOptions};
 use crate::input::grid::Grid;
 use crate::output::csv;
-use crate::output::files::{refuse_existing, write_all_atomic, OutputFile};
-use crate::output::records::{pretty, Document, Inputs, ProfileRecord};
+use crate::output::files::{Destination, OutputFile, Replace};
+use crate::output::records::{pretty, Document, GridRecord, Inputs, ProfileRecord};
 use crate::precision::check_digits;
 use crate::progress::Observer;
 use serde::Serialize;
@@ -33,7 +33,7 @@ pub struct BuildRequest {
     pub strip: bool,
     /// Decimal digits of the working precision (8 to 1000; 16 or less: double precision where
     /// it suffices).
-    #[cfg_attr(feature = "cli", arg(long, default_value_t = super::defaults::DIGITS))]
+    #[cfg_attr(feature = "cli", arg(long, default_value_t = super::defaults::DIGITS, allow_negative_numbers = true))]
     pub digits: u32,
     /// Output directory.
     #[cfg_attr(feature = "cli", arg(long, default_value = "out/build"))]
@@ -48,6 +48,7 @@ struct Options {
     level: Option<usize>,
     modulus: Option<String>,
     grid: String,
+    grid_read: GridRecord,
     strip: bool,
     digits: u32,
 }
@@ -71,15 +72,16 @@ pub fn build_files(strip: bool) -> Vec<&'static str> {
 /// `residual.csv`) and `psi.json` into the output directory; `progress` is told of the stages.
 ///
 /// # Errors
-/// See [`CommandError`]; existing outputs are refused (before computing) unless `replace`.
+/// See [`CommandError`]; an unwritable output directory and existing outputs are refused
+/// (before computing; existing ones unless `replace`).
 pub fn build(request: &BuildRequest, progress: Observer<'_>) -> Result<Outcome, CommandError> {
     let start = Instant::now();
     check_digits(request.digits)?;
     let sel = request.family.resolve()?;
     let grid = Grid::parse(&request.grid)?;
-    let target = request.target.target()?;
+    let target = request.target.target(&sel, request.digits)?;
     let files = build_files(request.strip);
-    refuse_existing(&request.out, &files, request.replace)?;
+    let destination = Destination::prepare(&request.out, &files, Replace::asked(request.replace))?;
     let options = ProfileOptions {
         grid,
         strip: request.strip,
@@ -94,6 +96,7 @@ pub fn build(request: &BuildRequest, progress: Observer<'_>) -> Result<Outcome, 
             level: request.target.level,
             modulus: request.target.modulus.clone(),
             grid: request.grid.clone(),
+            grid_read: GridRecord::new(&options.grid),
             strip: request.strip,
             digits: request.digits,
         },
@@ -110,7 +113,7 @@ pub fn build(request: &BuildRequest, progress: Observer<'_>) -> Result<Outcome, 
         .map(|(name, text)| (name.to_string(), text.into_bytes()))
         .collect();
     outputs.push(("psi.json".into(), json.clone().into_bytes()));
-    write_all_atomic(&request.out, &outputs)?;
+    destination.write(&outputs)?;
     Ok(Outcome {
         json,
         text: String::new(),

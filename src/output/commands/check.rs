@@ -3,7 +3,7 @@
 use super::{CommandError, FamilyRequest, Outcome, TargetRequest};
 use crate::checks::level::{self, CheckOptions};
 use crate::input::grid::Grid;
-use crate::output::records::{pretty, CheckRecord, Document, Inputs};
+use crate::output::records::{pretty, CheckRecord, Document, GridRecord, Inputs};
 use crate::output::tables::check_text;
 use crate::precision::check_digits;
 use serde::Serialize;
@@ -24,7 +24,7 @@ pub struct CheckRequest {
     )]
     pub grid: String,
     /// Decimal digits (8 to 1000; 16 or less: double precision where it suffices).
-    #[cfg_attr(feature = "cli", arg(long, default_value_t = super::defaults::DIGITS))]
+    #[cfg_attr(feature = "cli", arg(long, default_value_t = super::defaults::DIGITS, allow_negative_numbers = true))]
     pub digits: u32,
 }
 
@@ -33,6 +33,7 @@ struct Options {
     level: Option<usize>,
     modulus: Option<String>,
     grid: String,
+    grid_read: GridRecord,
     digits: u32,
 }
 
@@ -48,7 +49,7 @@ pub fn check(request: &CheckRequest) -> Result<Outcome, CommandError> {
     check_digits(request.digits)?;
     let sel = request.family.resolve()?;
     let grid = Grid::parse(&request.grid)?;
-    let target = request.target.target()?;
+    let target = request.target.target(&sel, request.digits)?;
     let options = CheckOptions {
         grid,
         digits: request.digits,
@@ -63,6 +64,7 @@ pub fn check(request: &CheckRequest) -> Result<Outcome, CommandError> {
             level: request.target.level,
             modulus: request.target.modulus.clone(),
             grid: request.grid.clone(),
+            grid_read: GridRecord::new(&options.grid),
             digits: request.digits,
         },
     };

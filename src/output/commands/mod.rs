@@ -79,6 +79,14 @@ pub enum CommandError {
     Plot(#[from] crate::output::plot::PlotError),
     #[error(transparent)]
     Files(#[from] FileError),
+    /// A request that would need more memory than the machine has available (estimated
+    /// before anything is allocated).
+    #[error("{what} would need about {} of memory, more than the {} available; ask for fewer levels or a smaller basis", gib(*needed), gib(*available))]
+    TooLarge {
+        what: String,
+        needed: f64,
+        available: f64,
+    },
     /// Neither a level nor a modulus was given.
     #[error("no eigenfunction selected: a level or a modulus is needed")]
     NoTarget,
@@ -86,6 +94,27 @@ pub enum CommandError {
     /// were written; this is the finding).
     #[error("{family}: unmatched in the audit window: {list}")]
     Unmatched { family: String, list: String },
+}
+
+impl CommandError {
+    /// Whether the error is the caller's input (a request outside its domain, unreadable text,
+    /// an output that cannot or may not be written) rather than a computation that failed or a
+    /// check that did not pass. The binary exits with 2 for the first, 1 for the second.
+    pub fn is_input(&self) -> bool {
+        use CommandError as E;
+        match self {
+            E::Precision(_)
+            | E::Selection(_)
+            | E::Grid(_)
+            | E::Files(_)
+            | E::NoTarget
+            | E::TooLarge { .. }
+            | E::Attractor(AttractorError::BeyondReach { .. })
+            | E::Spectrum(SpectrumError::EmptyLevels | SpectrumError::BasisTooSmall { .. }) => true,
+            E::Profile(p) | E::Audit(AuditError::Profile(p)) => p.is_input(),
+            _ => false,
+        }
+    }
 }
 
 #[cfg(feature = "figures")]
@@ -96,6 +125,40 @@ impl From<crate::output::figures::FiguresError> for CommandError {
             crate::output::figures::FiguresError::Profile(p) => CommandError::Profile(p),
         }
     }
+}
+
+/// Bytes as GiB with two decimals.
+fn gib(bytes: f64) -> String {
+    format!("{:.2} GiB", bytes / f64::from(1u32 << 30))
+}
+
+/// The memory available to this process in bytes: `MemAvailable` of `/proc/meminfo` where
+/// there is one, else 8 GiB (a conservative guess for machines without it).
+fn available_memory() -> f64 {
+    std::fs::read_to_string("/proc/meminfo")
+        .ok()
+        .and_then(|text| {
+            text.lines()
+                .find_map(|l| l.strip_prefix("MemAvailable:"))
+                .and_then(|v| v.trim().trim_end_matches("kB").trim().parse::<f64>().ok())
+        })
+        .map_or(8.0 * f64::from(1u32 << 30), |kib| kib * 1024.0)
+}
+
+/// Refuses a request whose estimated peak memory `needed` exceeds 80 % of what is available.
+///
+/// # Errors
+/// [`CommandError::TooLarge`].
+fn check_memory(what: &str, needed: f64) -> Result<(), CommandError> {
+    let available = available_memory();
+    if needed > 0.8 * available {
+        return Err(CommandError::TooLarge {
+            what: what.to_string(),
+            needed,
+            available,
+        });
+    }
+    Ok(())
 }
 
 /// The family a command works on, as given: a catalogue id, or vertices (and optionally
@@ -163,7 +226,10 @@ impl FamilyRequest {
 )]
 pub struct TargetRequest {
     /// Level n (the attractor modulus with nu = n + 1).
-    #[cfg_attr(feature = "cli", arg(long, conflicts_with = "modulus"))]
+    #[cfg_attr(
+        feature = "cli",
+        arg(long, conflicts_with = "modulus", allow_negative_numbers = true)
+    )]
     pub level: Option<usize>,
     /// An explicit modulus a (must be an attractor modulus unless --allow-non-attractor).
     #[cfg_attr(feature = "cli", arg(long, allow_hyphen_values = true))]
@@ -175,14 +241,24 @@ pub struct TargetRequest {
 }
 
 impl TargetRequest {
-    /// The profile target.
+    /// The profile target, its domain checked up front: a level within reach, or a modulus
+    /// that reads strictly and lies above the threshold of `sel` at the precision of `digits`.
     ///
     /// # Errors
-    /// [`CommandError::NoTarget`].
-    pub fn target(&self) -> Result<Target, CommandError> {
+    /// [`CommandError::NoTarget`], [`CommandError::Attractor`] for a level beyond reach,
+    /// [`CommandError::Selection`] for a modulus outside its domain.
+    pub fn target(&self, sel: &Selection, digits: u32) -> Result<Target, CommandError> {
         match (self.level, &self.modulus) {
-            (Some(n), _) => Ok(Target::Level(n)),
-            (None, Some(text)) => Ok(Target::Modulus(text.clone())),
+            (Some(n), _) => {
+                crate::curve::attractor::check_reach(&(n..=n))?;
+                Ok(Target::Level(n))
+            }
+            (None, Some(text)) => {
+                // The domain of the modulus is checked here, before any computation.
+                let bits = crate::precision::working_bits(f64::from(digits));
+                crate::input::numbers::parse_modulus(text, bits, &sel.laurent)?;
+                Ok(Target::Modulus(text.clone()))
+            }
             (None, None) => Err(CommandError::NoTarget),
         }
     }

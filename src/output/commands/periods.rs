@@ -20,7 +20,7 @@ pub struct PeriodsRequest {
     #[cfg_attr(feature = "cli", arg(long, allow_hyphen_values = true))]
     pub modulus: String,
     /// Decimal digits of the working precision (8 to 1000).
-    #[cfg_attr(feature = "cli", arg(long, default_value_t = super::defaults::DIGITS))]
+    #[cfg_attr(feature = "cli", arg(long, default_value_t = super::defaults::DIGITS, allow_negative_numbers = true))]
     pub digits: u32,
 }
 
@@ -57,15 +57,16 @@ pub fn periods(request: &PeriodsRequest) -> Result<Outcome, CommandError> {
     };
     let id = sel.family.id;
     let doc = Document::new(
-        PeriodsRecord::new(id, &cmp, request.digits),
+        PeriodsRecord::new(id, &a, &cmp, request.digits),
         inputs,
         Some(bits),
         elapsed,
     )
     .noting(PERIODS_NOTE);
+    // The modulus as read (at the digits asked for), not as typed.
     let text = periods_table(
         id,
-        request.modulus.trim(),
+        &crate::output::decimal::decimal(&a, request.digits),
         &cmp,
         request.digits,
         bits,

@@ -16,17 +16,20 @@ pub struct SpectrumRequest {
     #[cfg_attr(feature = "cli", command(flatten))]
     pub family: FamilyRequest,
     /// Levels: an inclusive range A..B or one level n.
-    #[cfg_attr(feature = "cli", arg(long, default_value = super::defaults::LEVELS))]
+    #[cfg_attr(feature = "cli", arg(long, default_value = super::defaults::LEVELS, allow_hyphen_values = true))]
     pub levels: String,
     /// Basis size N: solve at N and 3N/2 only (default: adaptive from 200 up to --max-basis).
-    #[cfg_attr(feature = "cli", arg(long))]
+    #[cfg_attr(feature = "cli", arg(long, allow_negative_numbers = true))]
     pub basis: Option<usize>,
     /// Largest basis of the adaptive ladder 200, 300, 450, 675, 1013, ... (it stops once the
     /// digits are reached).
-    #[cfg_attr(feature = "cli", arg(long, default_value_t = 1013))]
+    #[cfg_attr(
+        feature = "cli",
+        arg(long, default_value_t = 1013, allow_negative_numbers = true)
+    )]
     pub max_basis: usize,
     /// Decimal digits wanted (8 to 1000).
-    #[cfg_attr(feature = "cli", arg(long, default_value_t = super::defaults::DIGITS))]
+    #[cfg_attr(feature = "cli", arg(long, default_value_t = super::defaults::DIGITS, allow_negative_numbers = true))]
     pub digits: u32,
 }
 
@@ -60,6 +63,17 @@ pub fn spectrum(request: &SpectrumRequest) -> Result<Outcome, CommandError> {
         digits: request.digits,
         squeeze: 1.0,
     };
+    spectrum::validate(&options)?;
+    let needed = spectrum::peak_memory(&sel.laurent, &options);
+    super::check_memory(
+        &format!(
+            "the spectrum of levels {}..{} with bases up to {}",
+            levels.start(),
+            levels.end(),
+            spectrum::ladder(&options).last().copied().unwrap_or(basis)
+        ),
+        needed,
+    )?;
     let start = Instant::now();
     let spec = spectrum::solve(&sel.laurent, &options)?;
     let elapsed = start.elapsed().as_secs_f64();

@@ -11,9 +11,9 @@ use crate::input::grid::Grid;
 use crate::input::selection::Selection;
 use crate::lattice::catalogue;
 use crate::output::figures::{FigureFormats, FigureOptions};
-use crate::output::files::{ensure_writable, refuse_foreign, write_all_atomic, OutputFile};
+use crate::output::files::{Destination, OutputFile, Replace};
 use crate::output::records::{
-    families_document, pretty, AuditRecord, Document, Inputs, ProfileRecord, NOTE,
+    families_document, pretty, AuditRecord, Document, GridRecord, Inputs, ProfileRecord, NOTE,
 };
 use crate::output::tables::families_table;
 use crate::output::{csv, data, figures, markdown};
@@ -110,14 +110,17 @@ struct TourRecord {
 /// eigenfunction is done.
 ///
 /// # Errors
-/// See [`CommandError`]; the output directory is checked for writability before computing.
+/// See [`CommandError`]; the output directory is checked for writability, and existing files
+/// the tour did not write are refused, before computing (unless `replace`).
 pub fn tour(request: &TourRequest, progress: Observer<'_>) -> Result<Outcome, CommandError> {
     let start = Instant::now();
-    ensure_writable(&request.out)?;
-    let fixed: Vec<String> = ["report.md", "report.json", "families.json", "families.txt"]
-        .map(String::from)
-        .to_vec();
-    refuse_foreign(&request.out, &fixed, CONTENTS, request.replace)?;
+    let replace = if request.replace {
+        Replace::Everything
+    } else {
+        Replace::Listed(CONTENTS.into())
+    };
+    let fixed = ["report.md", "report.json", "families.json", "families.txt"];
+    let destination = Destination::prepare(&request.out, &fixed, replace)?;
     let grid = Grid::parse(TOUR_GRID)?;
     let selections: Vec<Selection> = TOUR_FAMILIES
         .iter()
@@ -167,6 +170,7 @@ pub fn tour(request: &TourRequest, progress: Observer<'_>) -> Result<Outcome, Co
                     levels: [*TOUR_LEVELS.start(), *TOUR_LEVELS.end()],
                     digits: TOUR_DIGITS,
                     grid: TOUR_GRID.to_string(),
+                    grid_read: GridRecord::new(&grid),
                 },
             };
             let bits = AuditRecord::precision_bits(audit);
@@ -271,9 +275,8 @@ pub fn tour(request: &TourRequest, progress: Observer<'_>) -> Result<Outcome, Co
     let mut names: Vec<String> = files.iter().map(|f| f.0.clone()).collect();
     names.push(CONTENTS.into());
     names.sort();
-    refuse_foreign(&request.out, &names, CONTENTS, request.replace)?;
     files.push((CONTENTS.into(), (names.join("\n") + "\n").into_bytes()));
-    write_all_atomic(&request.out, &files)?;
+    destination.write(&files)?;
     Ok(Outcome {
         json,
         text: md,
