@@ -276,6 +276,23 @@ pub fn raise_budget_digits(working: f64) -> f64 {
     (working + RAISE_EXTRA_DIGITS).min(MAX_DIGITS as f64 + RAISE_EXTRA_DIGITS)
 }
 
+/// Whether a value that held `before` digits relative to its own size at `run` working digits,
+/// fewer than the `wanted`, and `after` when computed again at `raised` working digits, is
+/// rounding noise — a zero of ψ, whose size is below the absolute accuracy of its line at every
+/// precision: the precision grew by more than [`RAISE_MARGIN_DIGITS`] and the value's own digits
+/// by at most that margin (a value whose loss is real gains the digits added), or the value
+/// came out exactly 0 (−∞ digits) at either precision. Measured: dP3 levels 1 and 3 at r = 0,
+/// the odd ψ at the puncture from the mean-value formula, hold 0.5 and 0.6 digits of their own
+/// at 16 and 35 digits and come out exactly 0 at 40 digits more, while far-out values of F0
+/// and T6 gain the digits added (`tests/far_points.rs`).
+pub fn is_rounding_noise(before: f64, after: f64, run: f64, raised: f64, wanted: f64) -> bool {
+    before < wanted
+        && raised > run + RAISE_MARGIN_DIGITS
+        && (before == f64::NEG_INFINITY
+            || after == f64::NEG_INFINITY
+            || after - before <= RAISE_MARGIN_DIGITS)
+}
+
 /// The loss to expect at `r` before it is measured (for a point whose double-precision value is
 /// out of range): at an end where the roots merge the difference χ − χ∘ι̃ loses |r|/(2 ln 10)
 /// digits (measured at T6's left end: 8.95, 17.9, 26.8 digits at |r| = 40, 80, 120 at 300 bits,
@@ -364,6 +381,20 @@ mod tests {
         assert_eq!(tolerance(64, 4), 2f64.powi(-60));
         assert!((tolerance_digits(DOUBLE_BITS, 5.0) / 1e-10 - 1.0).abs() < 1e-12);
         assert!(tolerance_digits(256, 10.0) < tolerance_digits(128, 10.0));
+    }
+
+    #[test]
+    fn rounding_noise_is_a_value_that_gains_no_digits() {
+        // A zero: 0.5 digits of its own at 16 working digits, 0.6 at 56 (or exactly 0).
+        assert!(is_rounding_noise(0.5, 0.6, 16.0, 56.0, 10.0));
+        assert!(is_rounding_noise(0.5, f64::NEG_INFINITY, 16.0, 56.0, 10.0));
+        assert!(is_rounding_noise(f64::NEG_INFINITY, 2.0, 16.0, 56.0, 10.0));
+        // Negative companions: a real loss gains the digits added; a value that held the wanted
+        // digits (raised for its range only) is never taken for noise; no raise, no verdict.
+        assert!(!is_rounding_noise(5.0, 9.5, 16.0, 56.0, 10.0));
+        assert!(!is_rounding_noise(5.0, 40.0, 16.0, 56.0, 10.0));
+        assert!(!is_rounding_noise(14.0, 12.0, 16.0, 56.0, 10.0));
+        assert!(!is_rounding_noise(0.5, 0.6, 16.0, 16.0, 10.0));
     }
 
     #[test]

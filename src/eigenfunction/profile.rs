@@ -21,8 +21,11 @@
 //!    wanted digits ([`crate::precision::point_digits_wanted`]), and in double precision every
 //!    value beyond [`DOUBLE_RANGE`], are computed again at a raised precision on all lines, with
 //!    their residual (twice at most, within [`crate::precision::raise_budget_digits`]); a zero of
-//!    ψ (its loss grows with the precision) keeps its first value; what is still short has no
-//!    value (`nan` in the files) and is listed with its reason.
+//!    ψ (a value that gains no digits of its own when the precision is raised,
+//!    [`crate::precision::is_rounding_noise`], e.g. the odd ψ of dP3 levels 1 and 3 at r = 0)
+//!    keeps its first value if that holds the wanted digits relative to its line's peak, and is
+//!    listed with those digits ([`PointDigits::zeros`]); what is still short has no value (`nan`
+//!    in the files) and is listed with its reason.
 //! 6. Reach ([`reach`]): a grid beyond |r| = [`REACH`] (less at a merging end when the loss
 //!    |r|/(2 ln 10) exceeds the budget) is refused before any sampling
 //!    ([`ProfileError::BeyondReach`], an input error), with the size of |ψ| there from the decay
@@ -62,11 +65,11 @@ use crate::numerics::complex::CNum;
 use crate::numerics::serial;
 use crate::operator::quantum_curve::QuantumCurve;
 use crate::precision::{
-    digits_for_bits, digits_of, expected_loss_digits, lambda_loss_digits, merging_reach,
-    normalization_digits, point_digits_wanted, profile_digits, profile_digits_after_loss,
-    profile_in_double, raise_budget_digits, raised_point_digits, working_bits, ATTRACTOR_TOLERANCE,
-    DIGITS_LEFT_MIN, DOUBLE_BITS, DOUBLE_RANGE, MAX_DIGITS, MIN_ATTRACTOR_DIGITS,
-    RAISE_MARGIN_DIGITS, REACH,
+    digits_for_bits, digits_of, expected_loss_digits, is_rounding_noise, lambda_loss_digits,
+    merging_reach, normalization_digits, point_digits_wanted, profile_digits,
+    profile_digits_after_loss, profile_in_double, raise_budget_digits, raised_point_digits,
+    working_bits, ATTRACTOR_TOLERANCE, DIGITS_LEFT_MIN, DOUBLE_BITS, DOUBLE_RANGE, MAX_DIGITS,
+    MIN_ATTRACTOR_DIGITS, RAISE_MARGIN_DIGITS, REACH,
 };
 use crate::progress::{Counter, Observer, Stage};
 use num_complex::Complex64;
@@ -250,6 +253,10 @@ pub struct PointDigits {
     pub raised_bits: Option<u32>,
     /// The points left without a value (written as `nan`), with the reason.
     pub dropped: Vec<PointNote>,
+    /// Zeros of ψ: points whose value is rounding noise at every precision tried (its digits
+    /// relative to its own size did not grow when the precision was raised); the first value is
+    /// kept, held absolutely, with its digits relative to the line's peak.
+    pub zeros: Vec<PointNote>,
 }
 
 /// A grid point of one line of a profile that was recomputed or dropped.
@@ -260,9 +267,13 @@ pub struct PointNote {
     /// Index in the grid, and the point.
     pub index: usize,
     pub r: f64,
-    /// Digits the value held (at the run's precision for a raised point; at the last precision
-    /// tried for a dropped one).
+    /// Digits the value held relative to its own size (at the run's precision for a raised
+    /// point or a zero; at the last precision tried for a dropped one).
     pub digits: f64,
+    /// For a zero of ψ: the digits of its value relative to the largest |ψ| on its line (its
+    /// absolute accuracy).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub digits_relative_to_peak: Option<f64>,
     pub reason: String,
 }
 
@@ -286,12 +297,14 @@ impl Profile {
 }
 
 impl PointDigits {
-    /// The smallest digits relative to its own size of a value on `line`.
+    /// The smallest digits relative to its own size of a value on `line`, zeros of ψ aside
+    /// (their digits are stated relative to the peak, [`PointDigits::zeros`]).
     pub fn min_relative(&self, line: usize) -> Option<f64> {
         self.relative[line]
             .iter()
-            .flatten()
-            .copied()
+            .enumerate()
+            .filter(|(k, _)| !self.zeros.iter().any(|z| z.index == *k))
+            .filter_map(|(_, d)| *d)
             .reduce(f64::min)
     }
 }
@@ -484,7 +497,6 @@ fn settle_points(
         .iter()
         .map(|&(k, _)| (k, [0, 1, 2].map(|l| value_at(p, l, k))))
         .collect();
-    let first_loss: Vec<f64> = todo.iter().map(|t| t.1).collect();
     let first_digits = p.point_digits.relative.clone();
     let first_residual = p.residual.clone();
     let first: Vec<(usize, f64)> = todo
@@ -555,20 +567,48 @@ fn settle_points(
             .filter_map(|&k| plan(p, k, work, true).map(|l| (k, l)))
             .collect();
     }
-    // A zero of ψ: its loss grew with the precision as fast as the precision itself (the value
-    // falls towards 0, |ψ| is held to the working precision absolutely, not relative to its
-    // size). Such a point keeps its first value, held absolutely like the rest of the line.
+    // A zero of ψ: raising the precision by (work − run) digits gained at most the margin in
+    // digits relative to the value's own size (or the value is exactly 0): it is rounding noise
+    // at every precision, |ψ| there is below the absolute accuracy of the line. Such a point keeps
+    // its first value if that holds the wanted digits relative to the line's peak.
     let run_digits = p.working_digits;
     let mut zeros = Vec::new();
-    todo.retain(|&(k, loss)| {
+    todo.retain(|&(k, _)| {
         let i = original.iter().position(|o| o.0 == k).unwrap_or(0);
-        let zero = loss - first_loss[i] >= (work - run_digits) - RAISE_MARGIN_DIGITS
-            && work > run_digits
-            && first_loss[i].is_finite();
+        let lines: Vec<usize> = (0..lines_n)
+            .filter(|&l| first_digits[l][k].is_some())
+            .collect();
+        let before = lines
+            .iter()
+            .filter_map(|&l| first_digits[l][k])
+            .fold(f64::INFINITY, f64::min);
+        let after = min_digits(p, k, lines_n);
+        // A double-precision value beyond the double range was raised for its range: its first
+        // value is not kept.
+        let noise = !(double && p.grid[k].abs() > DOUBLE_RANGE)
+            && is_rounding_noise(before, after, run_digits, work, wanted);
+        let kept: [Option<rug::Complex>; 3] = original[i].1.clone();
+        let to_peak: Vec<Option<f64>> = lines
+            .iter()
+            .map(|&l| {
+                zero_digits_to_peak(
+                    p,
+                    l,
+                    k,
+                    kept[l].as_ref().map(CNum::abs_f64),
+                    first_digits[l][k],
+                )
+            })
+            .collect();
+        let held = to_peak
+            .iter()
+            .map(|d| d.unwrap_or(f64::NEG_INFINITY))
+            .fold(f64::INFINITY, f64::min);
+        let zero = noise && !lines.is_empty() && held >= wanted;
         if zero {
-            zeros.push(k);
-            for (l, v) in original[i].1.iter().enumerate() {
-                set_value(p, l, k, v.clone());
+            zeros.push((k, before, after, held));
+            for (l, v) in kept.into_iter().enumerate().take(lines_n) {
+                set_value(p, l, k, v);
                 p.point_digits.relative[l][k] = first_digits[l][k];
             }
             if let (Some(res), Some(old)) = (p.residual.as_mut(), &first_residual) {
@@ -587,6 +627,7 @@ fn settle_points(
                     index: k,
                     r: p.grid[k],
                     digits,
+                    digits_relative_to_peak: None,
                     reason: reason.clone(),
                 });
             }
@@ -594,25 +635,36 @@ fn settle_points(
             set_value(p, l, k, None);
         }
     }
+    for &(k, digits, after, held) in &zeros {
+        p.point_digits.zeros.push(PointNote {
+            line: 0,
+            index: k,
+            r: p.grid[k],
+            digits,
+            digits_relative_to_peak: Some(held),
+            reason: format!(
+                "a zero of psi: computed again with {:.0} more working digits its value {} (rounding noise at every precision); the first value is kept, holding {held:.1} digits relative to the line's peak",
+                work - run_digits,
+                if after == f64::NEG_INFINITY {
+                    "came out exactly 0".to_string()
+                } else {
+                    format!("gained {:.1} digits relative to its own size", after - digits)
+                }
+            ),
+        });
+    }
     if let Some(res) = p.residual.as_mut() {
         res.replace(&dropped, &vec![None; dropped.len()]);
     }
     if let Some(bits) = p.point_digits.raised_bits {
         for (k, digits) in first {
-            if zeros.contains(&k) {
+            if !dropped.contains(&k) && !zeros.iter().any(|z| z.0 == k) {
                 p.point_digits.raised.push(PointNote {
                     line: 0,
                     index: k,
                     r: p.grid[k],
                     digits,
-                    reason: format!("a zero of psi: at {bits} bits its size fell with the precision; the first value is kept, accurate relative to the line's peak, not to its own size"),
-                });
-            } else if !dropped.contains(&k) {
-                p.point_digits.raised.push(PointNote {
-                    line: 0,
-                    index: k,
-                    r: p.grid[k],
-                    digits,
+                    digits_relative_to_peak: None,
                     reason: format!(
                         "held {digits:.1} digits at the run's precision (fewer than the {wanted:.0} wanted, or beyond |r| = {DOUBLE_RANGE} in double precision); computed again at {bits} bits on every line"
                     ),
@@ -623,12 +675,41 @@ fn settle_points(
     Ok(())
 }
 
-/// The fewest digits relative to its own size of the values at grid point `k` (−∞ without
+/// The fewest digits relative to its own size of the values at grid point `k` (+∞ without
 /// any).
 fn min_digits(p: &Profile, k: usize, lines_n: usize) -> f64 {
     (0..lines_n)
         .filter_map(|l| p.point_digits.relative[l][k])
         .fold(f64::INFINITY, f64::min)
+}
+
+/// The digits relative to the largest written |ψ| on line `l` of a zero of ψ at point `k`, of
+/// size `size` and holding `relative` digits relative to its own size: `relative +
+/// log₁₀(peak/size)`, at most the fewest such digits of the line's other values (the value is
+/// rounding noise of a computation from its neighbours; a value exactly 0 holds just that).
+fn zero_digits_to_peak(
+    p: &Profile,
+    l: usize,
+    k: usize,
+    size: Option<f64>,
+    relative: Option<f64>,
+) -> Option<f64> {
+    let line = [&p.real_line, &p.upper_line, &p.lower_line][l];
+    let peak = line.iter().flatten().map(|v| v.norm()).fold(0.0, f64::max);
+    let of = |size: f64, relative: f64| relative + (peak / size).log10();
+    let others = line
+        .iter()
+        .zip(&p.point_digits.relative[l])
+        .enumerate()
+        .filter(|&(j, _)| j != k)
+        .filter_map(|(_, (v, d))| Some((v.as_ref()?.norm(), (*d)?)))
+        .filter(|&(size, _)| size > 0.0)
+        .map(|(size, d)| of(size, d))
+        .reduce(f64::min)?;
+    match (size?, relative?) {
+        (size, relative) if size > 0.0 => Some(of(size, relative).min(others)),
+        _ => Some(others),
+    }
 }
 
 /// The written value of line `l` at point `k` (at the working precision when the profile has
@@ -903,6 +984,7 @@ fn sample<T: CNum + Send + Sync>(
         raised: Vec::new(),
         raised_bits: None,
         dropped: Vec::new(),
+        zeros: Vec::new(),
     };
     Ok(Profile {
         level: resolved.level,

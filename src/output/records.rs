@@ -738,6 +738,9 @@ pub struct PointDigitsRecord {
     pub raised_precision_bits: Option<u32>,
     /// Points written as nan because no value with the wanted digits was within the budget.
     pub without_value: Vec<PointNote>,
+    /// Zeros of psi: values that stayed rounding noise when the precision was raised, kept with
+    /// their digits relative to the line's peak (not counted in the minima above).
+    pub zeros: Vec<PointNote>,
 }
 
 impl PointDigitsRecord {
@@ -749,13 +752,14 @@ impl PointDigitsRecord {
             .flatten()
             .reduce(f64::min);
         PointDigitsRecord {
-            rule: "each value holds the working digits less the cancellation in chi - chi o iota at its point and the error of the exponent integral (log10(1 + |e|/2pi)); values with fewer than `wanted` digits are computed again at a raised precision (within a budget of 100 digits above the working digits), else written as nan and listed here",
+            rule: "each value holds the working digits less the cancellation in chi - chi o iota at its point and the error of the exponent integral (log10(1 + |e|/2pi)); values with fewer than `wanted` digits are computed again at a raised precision (within a budget of 100 digits above the working digits), else written as nan and listed here; a value whose own digits do not grow when the precision is raised is a zero of psi, kept with its digits relative to the line's peak",
             wanted: d.wanted,
             relative_min_on_r: d.min_relative(0),
             relative_min_on_strip_lines: strip,
             raised: d.raised.clone(),
             raised_precision_bits: d.raised_bits,
             without_value: d.dropped.clone(),
+            zeros: d.zeros.clone(),
         }
     }
 }
