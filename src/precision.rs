@@ -276,6 +276,11 @@ pub fn raise_budget_digits(working: f64) -> f64 {
     (working + RAISE_EXTRA_DIGITS).min(MAX_DIGITS as f64 + RAISE_EXTRA_DIGITS)
 }
 
+/// The share of the mass ∫|ψ|² inside a grid that points without a value may carry at most
+/// for the norm on the grid to be formed over the other points: 1e-13, below the 12 decimals
+/// of the mass the check prints.
+pub const EXCLUDED_MASS_MAX: f64 = 1e-13;
+
 /// Whether a value that held `before` digits relative to its own size at `run` working digits,
 /// fewer than the `wanted`, and `after` when computed again at `raised` working digits, is
 /// rounding noise — a zero of ψ, whose size is below the absolute accuracy of its line at every

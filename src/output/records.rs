@@ -479,6 +479,8 @@ pub struct LevelRecord {
     /// Grid points on R without a value (written as nan; left out of the norm on the grid and
     /// the tail zeros).
     pub points_without_value: usize,
+    /// Bound on the share of the mass inside the grid those points may carry.
+    pub excluded_mass_bound: f64,
     pub norm: f64,
     pub norm_on_grid: f64,
     pub norm_tail_fraction: f64,
@@ -514,7 +516,8 @@ impl From<&LevelAudit> for LevelRecord {
             residual_rms: p.residual.as_ref().and_then(|r| r.rms),
             residual_points_with_pole_limits: p.residual.as_ref().map(|r| r.pole_limits),
             residual_points_without_value: p.residual.as_ref().map(|r| r.points_without_value),
-            points_without_value: p.real_line.iter().filter(|v| v.is_none()).count(),
+            points_without_value: l.grid_points_without_value,
+            excluded_mass_bound: l.excluded_mass_bound,
             norm: l.norm,
             norm_on_grid: l.norm_on_grid,
             norm_tail_fraction: p.normalization.tail,

@@ -238,11 +238,12 @@ pub fn check_text(family: &str, c: &Check, elapsed_s: f64) -> String {
             ));
         }
     }
-    let missing = p.real_line.iter().filter(|v| v.is_none()).count();
-    if missing > 0 {
+    if l.grid_points_without_value > 0 {
         out.push_str(&format!(
-            "  {missing} of {} grid points on R have no value (nan): the norm inside the grid and the tail zeros are over the other points only\n",
-            p.grid.len()
+            "  {} of {} grid points on R have no value (nan), left out of the norm inside the grid (they may carry up to {} of it) and of the tail zeros\n",
+            l.grid_points_without_value,
+            p.grid.len(),
+            sci(l.excluded_mass_bound)
         ));
     }
     out.push_str(&format!(
@@ -306,8 +307,12 @@ pub(crate) fn tail_text(t: &TailZeros) -> String {
         .predicted
         .map(|c| format!("{c:.2}"))
         .unwrap_or_else(|| "none (roots meet at this end)".into());
+    let missing = match t.points_without_value {
+        0 => String::new(),
+        n => format!(", {n} points without a value not searched"),
+    };
     format!(
-        "{} zeros, s·|r|/π² = {measured} (predicted {predicted})",
+        "{} zeros, s·|r|/π² = {measured} (predicted {predicted}){missing}",
         t.count
     )
 }
