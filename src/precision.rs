@@ -218,6 +218,130 @@ pub fn normalization_digits(lambda_abs: f64) -> f64 {
     19.0 + lambda_loss_digits(lambda_abs)
 }
 
+/// Digits of the working precision that one value ψ = (χ − χ∘ι̃)/D loses relative to its own
+/// size: the cancellation at that point, `log₁₀(max(|χ|, |χ∘ι̃|)/|D|) − log₁₀|ψ|` (at least 0),
+/// plus the error of the exponent integral e it was exponentiated from: χ = exp(−e/2πi) carries
+/// the absolute error of e, which grows with |e| (≈ r²/2 far out), as a relative error
+/// ε·|e|/2π, hence `log₁₀(1 + |e|/2π)` digits. Infinite where a magnitude is not finite (χ over-
+/// or underflowed, or ψ is 0). Arguments: `log10_term` = log₁₀ of the larger term over |D|,
+/// `log10_value` = log₁₀|ψ|, `exponent_abs` = the larger |e| of the two sheets.
+pub fn point_loss_digits(log10_term: f64, log10_value: f64, exponent_abs: f64) -> f64 {
+    let cancellation = log10_term - log10_value;
+    let exponent = (1.0 + exponent_abs / (2.0 * std::f64::consts::PI)).log10();
+    if cancellation.is_finite() && exponent.is_finite() {
+        cancellation.max(0.0) + exponent
+    } else {
+        f64::INFINITY
+    }
+}
+
+/// Digits every written value of a profile requested at `digits` must hold relative to its own
+/// size, else it is computed again at a raised precision ([`raised_point_digits`]) or written as
+/// `nan`: the requested digits, and for a request of at most [`DOUBLE_DIGITS`] the
+/// [`POINT_DIGITS_MIN_DOUBLE`].
+pub fn point_digits_wanted(digits: u32) -> f64 {
+    if digits <= DOUBLE_DIGITS {
+        POINT_DIGITS_MIN_DOUBLE
+    } else {
+        digits as f64
+    }
+}
+
+/// Digits every value of a double-precision request must hold relative to its own size: 10, the
+/// 15 of double precision less the 4 that |λ| may cost a run in double precision
+/// ([`profile_in_double`]: residual 2e-15·|λ| ≤ 1e-11) and 1 for the cancellation near the peak.
+pub const POINT_DIGITS_MIN_DOUBLE: f64 = 10.0;
+
+/// Margin of the raised precision above the wanted digits plus the estimated loss: 4 digits.
+pub const RAISE_MARGIN_DIGITS: f64 = 4.0;
+
+/// The budget of the recomputation of points that hold too few digits: at most this many digits
+/// above the profile's working digits (100: ~1 s per line out to |r| = 250 at double-precision
+/// requests, measured with `examples/point_digits.rs`), and never more than [`MAX_DIGITS`] + 100.
+pub const RAISE_EXTRA_DIGITS: f64 = 100.0;
+
+/// The working digits at which points of a profile at `working` digits are recomputed so that
+/// they hold `wanted` digits after a loss of `loss` digits: wanted + loss +
+/// [`RAISE_MARGIN_DIGITS`], at least `working` + 8 so that the precision grows; None beyond the
+/// budget ([`raise_budget_digits`]).
+pub fn raised_point_digits(wanted: f64, loss: f64, working: f64) -> Option<f64> {
+    let need = (wanted + loss + RAISE_MARGIN_DIGITS)
+        .max(working + 8.0)
+        .ceil();
+    (need.is_finite() && need <= raise_budget_digits(working)).then_some(need)
+}
+
+/// The largest working digits of a recomputation for a profile at `working` digits.
+pub fn raise_budget_digits(working: f64) -> f64 {
+    (working + RAISE_EXTRA_DIGITS).min(MAX_DIGITS as f64 + RAISE_EXTRA_DIGITS)
+}
+
+/// The share of the mass ∫|ψ|² inside a grid that points without a value may carry at most
+/// for the norm on the grid to be formed over the other points: 1e-13, below the 12 decimals
+/// of the mass the check prints.
+pub const EXCLUDED_MASS_MAX: f64 = 1e-13;
+
+/// Whether a value that held `before` digits relative to its own size at `run` working digits,
+/// fewer than the `wanted`, and `after` when computed again at `raised` working digits, is
+/// rounding noise — a zero of ψ, whose size is below the absolute accuracy of its line at every
+/// precision: the precision grew by more than [`RAISE_MARGIN_DIGITS`] and the value's own digits
+/// by at most that margin (a value whose loss is real gains the digits added), or the value
+/// came out exactly 0 (−∞ digits) at either precision. Measured: dP3 levels 1 and 3 at r = 0,
+/// the odd ψ at the puncture from the mean-value formula, hold 0.5 and 0.6 digits of their own
+/// at 16 and 35 digits and come out exactly 0 at 40 digits more, while far-out values of F0
+/// and T6 gain the digits added (`tests/far_points.rs`).
+pub fn is_rounding_noise(before: f64, after: f64, run: f64, raised: f64, wanted: f64) -> bool {
+    before < wanted
+        && raised > run + RAISE_MARGIN_DIGITS
+        && (before == f64::NEG_INFINITY
+            || after == f64::NEG_INFINITY
+            || after - before <= RAISE_MARGIN_DIGITS)
+}
+
+/// The loss to expect at `r` before it is measured (for a point whose double-precision value is
+/// out of range): at an end where the roots merge the difference χ − χ∘ι̃ loses |r|/(2 ln 10)
+/// digits (measured at T6's left end: 8.95, 17.9, 26.8 digits at |r| = 40, 80, 120 at 300 bits,
+/// `examples/point_digits.rs`); elsewhere the exponent's log₁₀(1 + r²/4π) plus
+/// [`RAISE_MARGIN_DIGITS`] for the cancellation (measured at most 4 digits out to |r| = 300 for
+/// F0).
+pub fn expected_loss_digits(r: f64, merging: bool) -> f64 {
+    let merge = if merging {
+        r.abs() / (2.0 * std::f64::consts::LN_10)
+    } else {
+        0.0
+    };
+    merge + (1.0 + r * r / (4.0 * std::f64::consts::PI)).log10() + RAISE_MARGIN_DIGITS
+}
+
+/// |r| beyond which double-precision values of ψ are not used (the points are computed again at
+/// a raised precision): the continuation forms products of the coefficients that grow like
+/// |x|⁴ = e^{4|r|}, which leave the double range at |r| = 177 (measured: F0 wrong from r = 180,
+/// P2 and dP3 from between 160 and 200, F2 and T6 NaN at 360; `examples/point_digits.rs`).
+pub const DOUBLE_RANGE: f64 = 140.0;
+
+/// |r| beyond which ψ is not computed at any precision: the step control of the continuation
+/// reads magnitudes of x = −e^r, of the roots and of products of the coefficients in double
+/// precision, and they leave its range (measured first wrong values at 200–300 bits: T6's
+/// merging end at |r| ≈ 320, F0, P2 and dP3 at ≈ 720; `examples/point_digits.rs`). With margin.
+/// Probed on level 0 of all 15 families at r = ±250 (`examples/reach_probe.rs`, against an
+/// independent 60-digit run): 14 hold their claimed digits at 16 requested digits (agreement
+/// 13.2–15.8 digits, each within one digit of its claim capped at the 16 of the double values
+/// compared) and at 40 digits; dP2*
+/// does not: its continuation stops at z ≈ 234.8 + πi (two roots not told apart) at every
+/// precision tried, and its grids to |r| = 230 are built. Its reach is not yet lowered.
+pub const REACH: f64 = 250.0;
+
+/// How far a profile reaches at an end where the roots merge, when its points may be computed
+/// at up to `budget` digits and must hold `wanted`: the loss |r|/(2 ln 10)
+/// ([`expected_loss_digits`]) must fit, at most [`REACH`].
+pub fn merging_reach(wanted: f64, budget: f64) -> f64 {
+    let mut r = REACH;
+    while r > 0.0 && wanted + expected_loss_digits(r, true) > budget {
+        r -= 1.0;
+    }
+    r
+}
+
 /// Digits the diagnostics (zeros, eigenvector, route dependence, Cauchy defect) may lose to |λ|
 /// in double precision: they judge defects of 1e-8 against 1e-11 and count zeros, not the last
 /// digit.
@@ -279,6 +403,34 @@ mod tests {
         assert_eq!(tolerance(64, 4), 2f64.powi(-60));
         assert!((tolerance_digits(DOUBLE_BITS, 5.0) / 1e-10 - 1.0).abs() < 1e-12);
         assert!(tolerance_digits(256, 10.0) < tolerance_digits(128, 10.0));
+    }
+
+    #[test]
+    fn rounding_noise_is_a_value_that_gains_no_digits() {
+        // A zero: 0.5 digits of its own at 16 working digits, 0.6 at 56 (or exactly 0).
+        assert!(is_rounding_noise(0.5, 0.6, 16.0, 56.0, 10.0));
+        assert!(is_rounding_noise(0.5, f64::NEG_INFINITY, 16.0, 56.0, 10.0));
+        assert!(is_rounding_noise(f64::NEG_INFINITY, 2.0, 16.0, 56.0, 10.0));
+        // Negative companions: a real loss gains the digits added; a value that held the wanted
+        // digits (raised for its range only) is never taken for noise; no raise, no verdict.
+        assert!(!is_rounding_noise(5.0, 9.5, 16.0, 56.0, 10.0));
+        assert!(!is_rounding_noise(5.0, 40.0, 16.0, 56.0, 10.0));
+        assert!(!is_rounding_noise(14.0, 12.0, 16.0, 56.0, 10.0));
+        assert!(!is_rounding_noise(0.5, 0.6, 16.0, 16.0, 10.0));
+    }
+
+    #[test]
+    fn raised_points_stay_within_the_budget() {
+        assert_eq!(point_digits_wanted(16), POINT_DIGITS_MIN_DOUBLE);
+        assert_eq!(point_digits_wanted(40), 40.0);
+        // 12 wanted + 20 lost + 4 of margin at a double-precision run.
+        assert_eq!(raised_point_digits(12.0, 20.0, 15.0), Some(36.0));
+        assert_eq!(raised_point_digits(12.0, f64::INFINITY, 15.0), None);
+        assert_eq!(raised_point_digits(12.0, 200.0, 15.0), None);
+        // A merging end loses |r|/(2 ln 10) digits: at 115 digits of budget 12 survive to
+        // |r| ≈ 400 > REACH; at 40 requested digits of 60 working, budget 160: also REACH.
+        assert_eq!(merging_reach(12.0, 115.0), REACH);
+        assert!(merging_reach(990.0, 1000.0) < 100.0);
     }
 
     #[test]

@@ -412,9 +412,31 @@ fn table() -> Vec<Case> {
         ("0:1_0:3", "inside a number"),
         ("1:1.0000000000000001:3", "too fine"),
         ("0:1e99999:3", "the exponent is beyond"),
+        // Beyond the reach of the profile (|r| <= 250, `eigenfunction::profile::reach`): refused
+        // after the modulus is solved and before any sampling (measured 0.07 s each for F0).
+        ("-400:400:9", "beyond the reach |r| <= 250"),
+        ("250.001:260:2", "beyond the reach |r| <= 250"),
+        ("-1e6:-300:3", "beyond the reach |r| <= 250"),
     ] {
         t.extend(grid(text, reason));
     }
+    // The reach at a merging end (T6's right end) and above double precision (measured 0.2 s).
+    t.push(case(
+        &[
+            "build",
+            "--family",
+            "T6",
+            "--level",
+            "0",
+            "--digits",
+            "40",
+            "--grid=0:300:3",
+            "--out",
+            "/tmp/regwave-robustness-never",
+        ],
+        2,
+        "beyond the reach",
+    ));
     // Output paths that cannot be written.
     for out in ["/proc/regwave-cannot", "/dev/null/regwave"] {
         t.push(case(

@@ -53,6 +53,10 @@ pub struct LevelAudit {
     pub norm: f64,
     /// ∫|ψ|² of the written values on the output grid (Simpson): the mass inside the grid.
     pub norm_on_grid: f64,
+    /// Points of the output grid on R without a value (left out of the mass and the tail
+    /// zeros), and the bound on the share of the mass they may carry.
+    pub grid_points_without_value: usize,
+    pub excluded_mass_bound: f64,
     pub zeros: Zeros,
     /// Zeros beyond the turning points on the output grid, with their spacing law.
     pub tail_zeros: [zeros::TailZeros; 2],
@@ -154,7 +158,7 @@ pub(crate) fn level_audit(
         .min(profile.modulus_digits as f64);
     let agreement_digits = crate::precision::agreement_digits(rel, cap.max(0.0));
     let norm = norms::norm_coarse(&profile.normalization);
-    let norm_on_grid = norms::norm_on_grid(&profile.grid, &profile.real_line);
+    let grid_norm = norms::norm_on_grid(&profile.grid, &profile.real_line)?;
     let tail_zeros = zeros::tail_zeros(
         &profile.grid,
         &profile.real_line,
@@ -170,7 +174,9 @@ pub(crate) fn level_audit(
         agreement_digits,
         agreement_cap: cap,
         norm,
-        norm_on_grid,
+        norm_on_grid: grid_norm.mass,
+        grid_points_without_value: grid_norm.points_without_value,
+        excluded_mass_bound: grid_norm.excluded_mass_bound,
         zeros: d.zeros,
         tail_zeros,
         eigenvector_difference: d.eigenvector_difference,

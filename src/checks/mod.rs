@@ -37,6 +37,10 @@ pub enum VerifyError {
     /// The independent spectrum does not contain the level.
     #[error("the independent spectrum has no level {level}")]
     MissingLevel { level: usize },
+    /// Points without a value where ψ may carry a share of the mass inside the grid that the
+    /// norm on the grid would notice ([`crate::precision::EXCLUDED_MASS_MAX`]).
+    #[error("psi has no value at {count} grid points, the first at r = {r}, where they may carry up to {bound:.1e} of the mass inside the grid: the norm on the grid is not formed")]
+    MissingInsideMass { count: usize, r: f64, bound: f64 },
     /// Nothing to check (an empty grid or window).
     #[error("nothing to check: {what}")]
     Empty { what: String },

@@ -9,6 +9,12 @@
 //! C·ψ(r + 2πi) are analytic, and their values are the mean over a circle around r (trapezoid
 //! rule: exponentially accurate).
 //!
+//! # Points without a value
+//! Where ψ on R has no value (a point the profile could not compute to its digits, see
+//! [`crate::eigenfunction::profile::PointDigits`]) or the residual is not finite, the residual is
+//! not formed: it is `None` there, counted in [`Residual::points_without_value`], and the maximum
+//! and rms are over the [`Residual::points_formed`] only (None, never NaN, when there are none).
+//!
 //! # What it detects
 //! A wrong operator (e.g. the wrong Weyl sign: residual of order one, tested below) and loss of
 //! precision. It is **not** a negative control for the modulus: for dP3 and for F0 it stays
@@ -35,13 +41,59 @@ use crate::precision::digits_of;
 /// The eigen-equation residual on the grid.
 #[derive(Debug, Clone, serde::Serialize)]
 pub struct Residual {
-    /// |A ψ(r − 2πi) + C ψ(r + 2πi) − (B + a) ψ(r)| / max|ψ| per grid point.
+    /// |A ψ(r − 2πi) + C ψ(r + 2πi) − (B + a) ψ(r)| / max|ψ| per grid point; None where a value
+    /// of ψ on one of the three lines is missing (not a pole: a point without a value, see
+    /// [`crate::eigenfunction::profile::PointDigits`]).
     pub per_point: Vec<Option<f64>>,
-    pub max: f64,
-    /// Root mean square over the points where it was formed.
-    pub rms: f64,
+    /// The largest over the points where it was formed; None when it was formed nowhere.
+    pub max: Option<f64>,
+    /// Root mean square over the points where it was formed; None when it was formed nowhere
+    /// (never NaN).
+    pub rms: Option<f64>,
     /// Grid points on a pole where a product was evaluated as a limit.
     pub pole_limits: usize,
+    /// Grid points where it was formed, and where it was not (no value of ψ there).
+    pub points_formed: usize,
+    pub points_without_value: usize,
+    /// max|ψ| on R of the raw (unnormalized) ψ: the scale the residual is relative to.
+    #[serde(skip)]
+    pub scale: f64,
+}
+
+impl Residual {
+    /// The residual from absolute per-point values relative to `scale`.
+    pub fn from_absolute(absolute: &[Option<f64>], scale: f64, pole_limits: usize) -> Self {
+        let per_point: Vec<Option<f64>> = absolute
+            .iter()
+            .map(|v| v.map(|v| v / scale).filter(|v| v.is_finite()))
+            .collect();
+        let defined: Vec<f64> = per_point.iter().flatten().copied().collect();
+        let formed = defined.len();
+        Residual {
+            max: (formed > 0).then(|| defined.iter().copied().fold(0.0, f64::max)),
+            rms: (formed > 0)
+                .then(|| (defined.iter().map(|v| v * v).sum::<f64>() / formed as f64).sqrt()),
+            points_without_value: per_point.len() - formed,
+            points_formed: formed,
+            per_point,
+            pole_limits,
+            scale,
+        }
+    }
+
+    /// Replaces the values at `indices` (absolute, relative to [`Residual::scale`]; None: not
+    /// formed) and recomputes the summary.
+    pub fn replace(&mut self, indices: &[usize], absolute: &[Option<f64>]) {
+        let mut all: Vec<Option<f64>> = self
+            .per_point
+            .iter()
+            .map(|v| v.map(|v| v * self.scale))
+            .collect();
+        for (&k, v) in indices.iter().zip(absolute) {
+            all[k] = *v;
+        }
+        *self = Residual::from_absolute(&all, self.scale, self.pole_limits);
+    }
 }
 
 /// The residual at the real parts `points` (at the working precision) from ψ on the three lines Im r = 0 (`real_line`), +2π (`upper`) and
@@ -62,7 +114,26 @@ pub fn eigen_equation_residual<T: CNum>(
         .iter()
         .flatten()
         .map(|v| v.abs_f64())
+        .filter(|v| v.is_finite())
         .fold(0.0, f64::max);
+    let (absolute, pole_limits) = absolute_residuals(q, eig, points, real_line, upper, lower)?;
+    Ok(Residual::from_absolute(&absolute, scale, pole_limits))
+}
+
+/// The absolute residual |A ψ(r − 2πi) + C ψ(r + 2πi) − (B + a) ψ(r)| of raw ψ per point (None
+/// where ψ on R has no value or the residual is not finite), and the number of pole products
+/// evaluated as limits.
+///
+/// # Errors
+/// See [`eigen_equation_residual`].
+pub fn absolute_residuals<T: CNum>(
+    q: &QuantumCurve,
+    eig: &Eigenfunction<T>,
+    points: &[T],
+    real_line: &[Option<T>],
+    upper: &[Option<T>],
+    lower: &[Option<T>],
+) -> Result<(Vec<Option<f64>>, usize), EigenError> {
     let a = eig.curve().modulus().clone();
     let mut per_point = Vec::with_capacity(points.len());
     let mut pole_limits = 0;
@@ -87,21 +158,9 @@ pub fn eigen_equation_residual<T: CNum>(
             }
         };
         let res = down + (c.centre - a.clone()) * m.clone() + up;
-        per_point.push(Some(res.abs_f64() / scale));
+        per_point.push(Some(res.abs_f64()).filter(|v| v.is_finite()));
     }
-    let defined: Vec<f64> = per_point.iter().flatten().copied().collect();
-    let max = defined.iter().copied().fold(0.0, f64::max);
-    let rms = if defined.is_empty() {
-        f64::NAN
-    } else {
-        (defined.iter().map(|v| v * v).sum::<f64>() / defined.len() as f64).sqrt()
-    };
-    Ok(Residual {
-        per_point,
-        max,
-        rms,
-        pole_limits,
-    })
+    Ok((per_point, pole_limits))
 }
 
 /// Largest radius of the circle on which a product at a pole is averaged: on it ψ is
@@ -155,6 +214,18 @@ mod tests {
     }
 
     #[test]
+    fn points_without_value_are_counted_never_averaged() {
+        // A NaN and a missing value are not formed: max and rms over the one formed point. The
+        // old summary (a fold with f64::max and a mean over all values) gave max 2 and rms NaN.
+        let r = Residual::from_absolute(&[Some(2.0), None, Some(f64::NAN)], 2.0, 0);
+        assert_eq!((r.points_formed, r.points_without_value), (1, 2));
+        assert_eq!((r.max, r.rms), (Some(1.0), Some(1.0)));
+        assert_eq!(r.per_point, vec![Some(1.0), None, None]);
+        let none = Residual::from_absolute(&[None, Some(f64::INFINITY)], 1.0, 0);
+        assert_eq!((none.max, none.rms, none.points_formed), (None, None, 0));
+    }
+
+    #[test]
     fn residual_with_pole_limits_and_its_failure_for_the_wrong_operator() {
         // On a grid through r = 0 the products A·ψ(r − 2πi), C·ψ(r + 2πi) at the poles are
         // evaluated as limits: the residual stays at double-precision level there (docs/MATHEMATICS.md §2,
@@ -175,7 +246,8 @@ mod tests {
         };
         let right = residual(&QuantumCurve::new(&l).unwrap());
         assert_eq!(right.pole_limits, 2, "both products at r = 0 are limits");
-        assert!(right.max < 1e-10, "residual {:e}", right.max);
+        let max = right.max.unwrap();
+        assert!(max < 1e-10, "residual {max:e}");
         let flipped: Vec<_> = l
             .terms()
             .iter()
@@ -183,6 +255,7 @@ mod tests {
             .collect();
         let wrong = QuantumCurve::new(&Laurent::from_terms(flipped)).unwrap();
         let bad = residual(&wrong);
-        assert!(bad.max > 1e-2, "wrong operator residual {:e}", bad.max);
+        let bad = bad.max.unwrap();
+        assert!(bad > 1e-2, "wrong operator residual {bad:e}");
     }
 }

@@ -169,6 +169,9 @@ pub struct TailZeros {
     pub side: i64,
     /// Zeros on the grid beyond the window.
     pub count: usize,
+    /// Grid points beyond the window without a value: a zero between them and their valued
+    /// neighbours is not seen (stated, not guessed).
+    pub points_without_value: usize,
     /// Median of s·|r|/π² over successive zeros (s their spacing, r their midpoint); None with
     /// fewer than two spacings.
     pub spacing_constant: Option<f64>,
@@ -217,11 +220,43 @@ pub fn tail_zeros(
             .map(|w| (w[1] - w[0]) * (0.5 * (w[0] + w[1])).abs() / std::f64::consts::PI.powi(2))
             .collect();
         constants.sort_by(f64::total_cmp);
+        let points_without_value = grid
+            .iter()
+            .zip(values)
+            .filter(|(&r, v)| (r - edge) * side as f64 > 0.0 && !v.is_some_and(|v| v.is_finite()))
+            .count();
         TailZeros {
             side,
             count: beyond.len(),
+            points_without_value,
             spacing_constant: (!constants.is_empty()).then(|| constants[constants.len() / 2]),
             predicted: (gap > 0).then(|| 4.0 / gap as f64),
         }
     })
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn tail_zeros_state_the_points_without_a_value() {
+        // ψ = cos(r) (real, k = 0) on [−20, 20]; zeros at π/2 + kπ (common practice). Beyond the
+        // window [−5, 5]: 4 on each side (5π/2 … 11π/2).
+        let grid: Vec<f64> = (0..401).map(|k| -20.0 + 0.1 * k as f64).collect();
+        let mut values: Vec<Option<Complex64>> = grid
+            .iter()
+            .map(|&r| Some(Complex64::new(r.cos(), 0.0)))
+            .collect();
+        let full = tail_zeros(&grid, &values, Some(0), [-5.0, 5.0], [0, 0]);
+        assert_eq!((full[0].count, full[1].count), (4, 4));
+        assert_eq!(full[1].points_without_value, 0);
+        // Three points on the right without a value (one inside the window): two stated.
+        for k in [250, 300, 400] {
+            values[k] = None;
+        }
+        let part = tail_zeros(&grid, &values, Some(0), [-5.0, 5.0], [0, 0]);
+        assert_eq!(part[0].points_without_value, 0);
+        assert_eq!(part[1].points_without_value, 2);
+    }
 }

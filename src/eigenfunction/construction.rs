@@ -47,6 +47,7 @@ use crate::curve::laurent::Laurent;
 use crate::curve::periods::{self, PeriodsError};
 use crate::numerics::complex::CNum;
 use crate::numerics::plane::segment_distance;
+use crate::precision::point_loss_digits;
 use thiserror::Error;
 
 /// Distance to a branch point or puncture below which ψ is evaluated by the mean-value formula.
@@ -85,6 +86,22 @@ pub struct Eigenfunction<T> {
     /// Orders (ℓ_A, ℓ_C) of the zeros of A and C at x = −1: ψ has a pole of order ℓ_C at +2πi
     /// and of order ℓ_A at −2πi.
     pole_orders: (usize, usize),
+}
+
+/// ψ on one line with the digits its values cost.
+#[derive(Debug, Clone)]
+pub struct LineSamples<T> {
+    /// ψ at the points (None on a pole of ψ).
+    pub values: Vec<Option<T>>,
+    /// Digits the line lost relative to its largest |ψ|:
+    /// `log₁₀(max_k max(|χ|, |χ∘ι̃|)/|D| / max_k |ψ|)` (at least 0).
+    pub loss: f64,
+    /// Per point, the digits of the working precision its value lost relative to its own size
+    /// ([`crate::precision::point_loss_digits`]: the cancellation in χ − χ∘ι̃ at that point and
+    /// the error of the exponent integral; infinite where χ over- or underflowed or ψ is 0);
+    /// None on a pole. Points evaluated by the mean-value formula get the loss of the line
+    /// relative to their size.
+    pub point_loss: Vec<Option<f64>>,
 }
 
 /// Values of χ on both sheets and D at one z.
@@ -352,20 +369,19 @@ impl<T: CNum> Eigenfunction<T> {
     ) -> Result<(Vec<Option<T>>, f64), EigenError> {
         let prec = self.lambda.prec();
         let exact: Vec<T> = grid.iter().map(|&r| T::from_f64s(r, 0.0, prec)).collect();
-        self.psi_on_line_at(&exact, im)
+        let line = self.psi_on_line_at(&exact, im)?;
+        Ok((line.values, line.loss))
     }
 
     /// As [`Eigenfunction::psi_on_line_with_loss`] at real parts given at the working precision
     /// (their imaginary parts are ignored): ψ is evaluated at exactly these points, e.g. the
-    /// points of a decimal grid rounded to the working precision rather than to f64.
+    /// points of a decimal grid rounded to the working precision rather than to f64. Also
+    /// returns the digits each value lost relative to its own size
+    /// ([`LineSamples::point_loss`]).
     ///
     /// # Errors
     /// See [`Eigenfunction::psi_on_line`].
-    pub fn psi_on_line_at(
-        &self,
-        points: &[T],
-        im: f64,
-    ) -> Result<(Vec<Option<T>>, f64), EigenError> {
+    pub fn psi_on_line_at(&self, points: &[T], im: f64) -> Result<LineSamples<T>, EigenError> {
         let grid: Vec<f64> = points.iter().map(|p| p.re_f64()).collect();
         // Loss relative to the scale of ψ on the line (zeros of ψ are not losses).
         let (mut largest_term, mut largest_value): (f64, f64) = (0.0, 0.0);
@@ -401,6 +417,7 @@ impl<T: CNum> Eigenfunction<T> {
         }
         let base_re = self.base.z.re_f64();
         let mut out: Vec<Option<T>> = vec![None; grid.len()];
+        let mut point_loss: Vec<Option<f64>> = vec![None; grid.len()];
         let mut order: Vec<usize> = (0..grid.len()).collect();
         order.sort_by(|&i, &j| grid[i].total_cmp(&grid[j]));
         let right: Vec<usize> = order
@@ -437,14 +454,21 @@ impl<T: CNum> Eigenfunction<T> {
                 let down = self.vertical_route(on_spine, &z, r, spine, im);
                 let (q1, j1) =
                     continue_sheet(&self.curve, &self.singular, &a1, &down, &self.march)?;
-                let chi = self.chi(&(f1.clone() + self.exponent(&j1)));
-                let chi_other = self.chi(&(f2.clone() + self.other_exponent(&j1)));
+                let exponent = f1.clone() + self.exponent(&j1);
+                let exponent_other = f2.clone() + self.other_exponent(&j1);
+                let chi = self.chi(&exponent);
+                let chi_other = self.chi(&exponent_other);
                 let d = q1.d;
                 let diff = chi.clone() - chi_other.clone();
                 let big = chi.abs_f64().max(chi_other.abs_f64()) / d.abs_f64();
-                let value = diff / d;
+                let value = diff / d.clone();
                 largest_term = largest_term.max(big);
                 largest_value = largest_value.max(value.abs_f64());
+                point_loss[i] = Some(point_loss_digits(
+                    chi.log10_abs().max(chi_other.log10_abs()) - d.log10_abs(),
+                    value.log10_abs(),
+                    exponent.abs_f64().max(exponent_other.abs_f64()),
+                ));
                 out[i] = Some(value);
             }
         }
@@ -453,7 +477,21 @@ impl<T: CNum> Eigenfunction<T> {
         } else {
             0.0
         };
-        Ok((out, loss))
+        // Values from the mean-value formula: the loss of the line, relative to their own size.
+        for (v, l) in out.iter().zip(point_loss.iter_mut()) {
+            if let (Some(v), None) = (v, &l) {
+                *l = Some(point_loss_digits(
+                    largest_value.log10() + loss,
+                    v.log10_abs(),
+                    0.0,
+                ));
+            }
+        }
+        Ok(LineSamples {
+            values: out,
+            loss,
+            point_loss,
+        })
     }
 
     /// The step from the spine point above `r` to `z`: straight down when that keeps clear of the

@@ -15,11 +15,26 @@
 //! 4. The cancellation in χ − χ∘ι̃ is measured on every line; if fewer than
 //!    [`DIGITS_LEFT_MIN`] digits would survive on R the lines are recomputed at a precision that
 //!    covers the loss (at most three times).
-//! 5. Residual `A ψ(r − 2πi) + C ψ(r + 2πi) − (B + a) ψ(r)` relative to max|ψ| on the grid, at the
+//! 5. Per point ([`PointDigits`]): the digits each value holds relative to its own size — the
+//!    working digits less the cancellation in χ − χ∘ι̃ at that point and the error of the
+//!    exponent integral ([`crate::precision::point_loss_digits`]). Values with fewer than the
+//!    wanted digits ([`crate::precision::point_digits_wanted`]), and in double precision every
+//!    value beyond [`DOUBLE_RANGE`], are computed again at a raised precision on all lines, with
+//!    their residual (twice at most, within [`crate::precision::raise_budget_digits`]); a zero of
+//!    ψ (a value that gains no digits of its own when the precision is raised,
+//!    [`crate::precision::is_rounding_noise`], e.g. the odd ψ of dP3 levels 1 and 3 at r = 0)
+//!    keeps its first value if that holds the wanted digits relative to its line's peak, and is
+//!    listed with those digits ([`PointDigits::zeros`]); what is still short has no value (`nan`
+//!    in the files) and is listed with its reason.
+//! 6. Reach ([`reach`]): a grid beyond |r| = [`REACH`] (less at a merging end when the loss
+//!    |r|/(2 ln 10) exceeds the budget) is refused before any sampling
+//!    ([`ProfileError::BeyondReach`], an input error), with the size of |ψ| there from the decay
+//!    rate κ of the end (1/2 branched, 1 otherwise).
+//! 7. Residual `A ψ(r − 2πi) + C ψ(r + 2πi) − (B + a) ψ(r)` relative to max|ψ| on the grid, at the
 //!    working precision, before any rounding. At the poles of ψ on the boundary lines (r = 0 when
 //!    A or C vanishes at x = −1) the products A·ψ(r − 2πi), C·ψ(r + 2πi) are finite and are
 //!    evaluated as limits: by the mean-value formula of the analytic product on a circle around r.
-//! 6. Unit L² norm on R ([`Eigenfunction::normalization`]) and the phase rule: with a reality rule
+//! 8. Unit L² norm on R ([`Eigenfunction::normalization`]) and the phase rule: with a reality rule
 //!    k ([`phase::reality_rule`]) e^{−ikr²/(8π)}ψ is made real and positive where |ψ| is largest
 //!    on the grid; otherwise ψ itself is made real and positive there.
 //!
@@ -33,13 +48,13 @@
 //! # References
 //! docs/MATHEMATICS.md §5–7.
 
-use crate::checks::residual::{eigen_equation_residual, Residual};
+use crate::checks::residual::{absolute_residuals, eigen_equation_residual, Residual};
 use crate::curve::attractor::{self, AttractorError};
 use crate::curve::continuation::March;
-use crate::curve::cover::{CoverError, Curve};
+use crate::curve::cover::{CoverError, Curve, EndRoots};
 use crate::curve::laurent::{Laurent, LaurentError};
 use crate::curve::periods::{self, PeriodsError};
-use crate::eigenfunction::construction::{EigenError, Eigenfunction};
+use crate::eigenfunction::construction::{EigenError, Eigenfunction, LineSamples};
 use crate::eigenfunction::normalization::Normalization;
 use crate::eigenfunction::phase;
 use crate::eigenfunction::poles::{self, Pole};
@@ -50,9 +65,11 @@ use crate::numerics::complex::CNum;
 use crate::numerics::serial;
 use crate::operator::quantum_curve::QuantumCurve;
 use crate::precision::{
-    digits_for_bits, digits_of, lambda_loss_digits, normalization_digits, profile_digits,
-    profile_digits_after_loss, profile_in_double, working_bits, ATTRACTOR_TOLERANCE,
-    DIGITS_LEFT_MIN, DOUBLE_BITS, MAX_DIGITS, MIN_ATTRACTOR_DIGITS,
+    digits_for_bits, digits_of, expected_loss_digits, is_rounding_noise, lambda_loss_digits,
+    merging_reach, normalization_digits, point_digits_wanted, profile_digits,
+    profile_digits_after_loss, profile_in_double, raise_budget_digits, raised_point_digits,
+    working_bits, ATTRACTOR_TOLERANCE, DIGITS_LEFT_MIN, DOUBLE_BITS, DOUBLE_RANGE, MAX_DIGITS,
+    MIN_ATTRACTOR_DIGITS, RAISE_MARGIN_DIGITS, REACH,
 };
 use crate::progress::{Counter, Observer, Stage};
 use num_complex::Complex64;
@@ -88,6 +105,15 @@ pub enum ProfileError {
     Periods(#[from] PeriodsError),
     #[error(transparent)]
     Operator(#[from] LaurentError),
+    /// The grid reaches farther out than the profile can compute ψ ([`reach`]).
+    #[error("the grid reaches |r| = {r}, beyond the reach |r| <= {reach} of this eigenfunction: there |psi| is below 10^-{below:.0} of its peak (decay e^(-{rate}|r|)), and {cause}")]
+    BeyondReach {
+        r: f64,
+        reach: f64,
+        below: f64,
+        rate: f64,
+        cause: &'static str,
+    },
 }
 
 impl ProfileError {
@@ -95,7 +121,9 @@ impl ProfileError {
     pub fn is_input(&self) -> bool {
         matches!(
             self,
-            ProfileError::Selection(_) | ProfileError::NotAttractor { .. }
+            ProfileError::Selection(_)
+                | ProfileError::NotAttractor { .. }
+                | ProfileError::BeyondReach { .. }
         )
     }
 }
@@ -174,6 +202,8 @@ pub struct Profile {
     /// are the values).
     pub precise: Option<PreciseLines>,
     pub residual: Option<Residual>,
+    /// The digits each written value holds, and the points raised or left without a value.
+    pub point_digits: PointDigits,
     pub poles: Vec<Pole>,
     /// Real parts of the branch points in the period strip Im z ∈ (−π, π].
     pub branch_points: Vec<[f64; 2]>,
@@ -203,6 +233,80 @@ pub struct PreciseLines {
     /// Decimal digits each line (R, +2π, −2π) supports relative to its largest |ψ|: the working
     /// digits less the cancellation in χ − χ∘ι̃ measured on that line.
     pub digits: [f64; 3],
+    /// The factor that took the raw lines to these (unit norm and phase rule).
+    #[serde(skip)]
+    pub factor: rug::Complex,
+}
+
+/// The digits of every written value of a profile, relative to its own size, and the points
+/// that were computed again at a raised precision or left without a value.
+#[derive(Debug, Clone, serde::Serialize)]
+pub struct PointDigits {
+    /// Digits each value must hold ([`crate::precision::point_digits_wanted`]).
+    pub wanted: f64,
+    /// Per line (R, +2π, −2π) and point, the digits the value holds relative to its own |ψ|
+    /// (None: a pole, or no value).
+    pub relative: [Vec<Option<f64>>; 3],
+    /// The points computed again at a raised precision.
+    pub raised: Vec<PointNote>,
+    /// The working precision of the last recomputation (None: none was needed).
+    pub raised_bits: Option<u32>,
+    /// The points left without a value (written as `nan`), with the reason.
+    pub dropped: Vec<PointNote>,
+    /// Zeros of ψ: points whose value is rounding noise at every precision tried (its digits
+    /// relative to its own size did not grow when the precision was raised); the first value is
+    /// kept, held absolutely, with its digits relative to the line's peak.
+    pub zeros: Vec<PointNote>,
+}
+
+/// A grid point of one line of a profile that was recomputed or dropped.
+#[derive(Debug, Clone, serde::Serialize)]
+pub struct PointNote {
+    /// 0: R, 1: Im r = +2π, 2: Im r = −2π.
+    pub line: usize,
+    /// Index in the grid, and the point.
+    pub index: usize,
+    pub r: f64,
+    /// Digits the value held relative to its own size (at the run's precision for a raised
+    /// point or a zero; at the last precision tried for a dropped one).
+    pub digits: f64,
+    /// For a zero of ψ: the digits of its value relative to the largest |ψ| on its line (its
+    /// absolute accuracy).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub digits_relative_to_peak: Option<f64>,
+    pub reason: String,
+}
+
+impl Profile {
+    /// The fewest digits a value on R holds relative to the largest |ψ| on R (the absolute
+    /// accuracy of the line, per point: its digits relative to its own size plus
+    /// log₁₀(max|ψ|/|ψ|)); None without values.
+    pub fn digits_left_min_on_r(&self) -> Option<f64> {
+        let peak = self
+            .real_line
+            .iter()
+            .flatten()
+            .map(|v| v.norm())
+            .fold(0.0, f64::max);
+        self.real_line
+            .iter()
+            .zip(&self.point_digits.relative[0])
+            .filter_map(|(v, d)| Some(d.as_ref()? + (peak / v.as_ref()?.norm()).log10()))
+            .reduce(f64::min)
+    }
+}
+
+impl PointDigits {
+    /// The smallest digits relative to its own size of a value on `line`, zeros of ψ aside
+    /// (their digits are stated relative to the peak, [`PointDigits::zeros`]).
+    pub fn min_relative(&self, line: usize) -> Option<f64> {
+        self.relative[line]
+            .iter()
+            .enumerate()
+            .filter(|(k, _)| !self.zeros.iter().any(|z| z.index == *k))
+            .filter_map(|(_, d)| *d)
+            .reduce(f64::min)
+    }
 }
 
 /// The modulus and what is known of it before sampling.
@@ -265,6 +369,7 @@ pub fn build_observed(
     let lost = lambda_loss_digits(lambda);
     let double = profile_in_double(options.digits, lambda);
     let work_digits = profile_digits(options.digits, lambda);
+    check_reach(laurent, resolved.modulus.to_f64(), options, work_digits)?;
     let mut profile = sample_at(laurent, target, &resolved, work_digits, double, options)?;
     stages.finished(Stage::Sampled);
     // The loss is only measurable below the working precision, so the check repeats (at most
@@ -280,7 +385,362 @@ pub fn build_observed(
         stages.finished(Stage::Sampled);
     }
     profile.lambda_digits_lost = lost;
+    settle_points(laurent, target, &resolved, options, &mut profile)?;
     Ok(profile)
+}
+
+/// The end kinds of the curve at the two ends of R and the decay rate of |ψ| there (κ = 1/2 at a
+/// branched end, 1 otherwise: docs/MATHEMATICS.md §2, [`crate::eigenfunction::normalization`]).
+fn ends(laurent: &Laurent, a: f64) -> Result<[(EndRoots, f64); 2], ProfileError> {
+    let curve = Curve::new(laurent, Complex64::new(a, 0.0))?;
+    Ok(curve.end_roots().map(|e| {
+        let rate = if e == EndRoots::Branched { 0.5 } else { 1.0 };
+        (e, rate)
+    }))
+}
+
+/// The largest |r| a profile of `laurent` at the modulus `a` reaches at each end (left, right),
+/// working at `working` digits with values that must hold `wanted` digits, and the cause of the
+/// limit: [`REACH`] (the continuation's range), less at an end where the roots merge when the
+/// loss |r|/(2 ln 10) would exceed the budget of a recomputation
+/// ([`crate::precision::merging_reach`]).
+///
+/// # Errors
+/// See [`ProfileError`] (the curve at `a`).
+pub fn reach(
+    laurent: &Laurent,
+    a: f64,
+    wanted: f64,
+    working: f64,
+) -> Result<[(f64, &'static str); 2], ProfileError> {
+    let budget = raise_budget_digits(working);
+    Ok(ends(laurent, a)?.map(|(end, _)| {
+        let merging = merging_reach(wanted, budget);
+        if end == EndRoots::Merging && merging < REACH {
+            (merging, "at this end the two roots merge: chi - chi o iota loses |r|/(2 ln 10) digits, more than the budget of raised precision")
+        } else {
+            (REACH, "the continuation steers by double-precision magnitudes of x = -e^r and of the curve's coefficients, which leave the double range")
+        }
+    }))
+}
+
+/// Refuses a grid that reaches beyond [`reach`], before any sampling.
+fn check_reach(
+    laurent: &Laurent,
+    a: f64,
+    options: &ProfileOptions,
+    working: f64,
+) -> Result<(), ProfileError> {
+    let wanted = point_digits_wanted(options.digits);
+    let limits = reach(laurent, a, wanted, working)?;
+    let rates = ends(laurent, a)?.map(|e| e.1);
+    for r in options.grid.values() {
+        let side = usize::from(r > 0.0);
+        let (limit, cause) = limits[side];
+        if !(r.abs() <= limit) {
+            return Err(ProfileError::BeyondReach {
+                r: r.abs(),
+                reach: limit,
+                below: rates[side] * limit / std::f64::consts::LN_10,
+                rate: rates[side],
+                cause,
+            });
+        }
+    }
+    Ok(())
+}
+
+/// The values of the profile that hold fewer than the wanted digits relative to their own size
+/// ([`crate::precision::point_digits_wanted`]), and in double precision those beyond
+/// [`DOUBLE_RANGE`], are computed again at a raised precision
+/// ([`crate::precision::raised_point_digits`]; twice at most, within
+/// [`crate::precision::raise_budget_digits`]), on all sampled lines at once and with their
+/// residual; what still falls short is left without a value and listed with its reason.
+fn settle_points(
+    laurent: &Laurent,
+    target: &Target,
+    resolved: &Resolved,
+    options: &ProfileOptions,
+    p: &mut Profile,
+) -> Result<(), ProfileError> {
+    let wanted = p.point_digits.wanted;
+    let double = p.precision_bits == DOUBLE_BITS;
+    let kinds = ends(laurent, p.modulus.to_f64())?;
+    let lines_n = if options.strip { 3 } else { 1 };
+    // Per short point, the loss to plan for: measured, or expected where not measurable (a
+    // double-precision value out of range, before it was raised).
+    let plan = |p: &Profile, k: usize, work: f64, raised: bool| -> Option<f64> {
+        let out_of_range = |r: f64| double && !raised && r.abs() > DOUBLE_RANGE;
+        let r = p.grid[k];
+        let mut short = false;
+        let mut loss: f64 = 0.0;
+        for l in 0..lines_n {
+            let Some(d) = p.point_digits.relative[l][k] else {
+                continue;
+            };
+            short |= d < wanted || out_of_range(r);
+            let measured = work - d;
+            loss = loss.max(if measured.is_finite() && !out_of_range(r) {
+                measured
+            } else {
+                expected_loss_digits(r, kinds[usize::from(r > 0.0)].0 == EndRoots::Merging)
+            });
+        }
+        short.then_some(loss)
+    };
+    let mut work = p.working_digits;
+    let mut todo: Vec<(usize, f64)> = (0..p.grid.len())
+        .filter_map(|k| plan(p, k, work, false).map(|l| (k, l)))
+        .collect();
+    // The values as first computed: kept at a zero of ψ (see below).
+    let original: Vec<(usize, [Option<rug::Complex>; 3])> = todo
+        .iter()
+        .map(|&(k, _)| (k, [0, 1, 2].map(|l| value_at(p, l, k))))
+        .collect();
+    let first_digits = p.point_digits.relative.clone();
+    let first_residual = p.residual.clone();
+    let first: Vec<(usize, f64)> = todo
+        .iter()
+        .map(|&(k, _)| (k, min_digits(p, k, lines_n)))
+        .collect();
+    let mut reason = String::new();
+    for _ in 0..2 {
+        if todo.is_empty() {
+            break;
+        }
+        let loss = todo.iter().map(|t| t.1).fold(0.0, f64::max);
+        let Some(need) = raised_point_digits(wanted, loss, work) else {
+            reason = format!(
+                "needs about {:.0} working digits (a loss of {loss:.0}), beyond the budget of {:.0}",
+                wanted + loss + RAISE_MARGIN_DIGITS,
+                raise_budget_digits(p.working_digits)
+            );
+            break;
+        };
+        let bits = working_bits(need);
+        let (a, _) = modulus_at(laurent, target, resolved, bits)?;
+        let eig = Eigenfunction::new(
+            laurent,
+            rug::Complex::with_val(bits, (&a, 0)),
+            Some(p.spine),
+            BASE_RE,
+        )?;
+        let all = options.grid.points_at(bits);
+        let points: Vec<rug::Complex> = todo
+            .iter()
+            .map(|&(k, _)| rug::Complex::with_val(bits, (&all[k], 0)))
+            .collect();
+        let raw = lines(&eig, &points, options.strip)?;
+        let indices: Vec<usize> = todo.iter().map(|t| t.0).collect();
+        if let Some(res) = p.residual.as_mut() {
+            let q = QuantumCurve::new(laurent)?;
+            let (absolute, _) = absolute_residuals(
+                &q,
+                &eig,
+                &points,
+                &raw.real_line,
+                &raw.upper_line,
+                &raw.lower_line,
+            )?;
+            res.replace(&indices, &absolute);
+        }
+        let factor = match &p.precise {
+            Some(lines) => lines.factor.clone(),
+            None => rug::Complex::with_val(bits, (p.factor.re, p.factor.im)),
+        };
+        let high = digits_of(bits);
+        let raw_lines = [&raw.real_line, &raw.upper_line, &raw.lower_line];
+        for (j, &k) in indices.iter().enumerate() {
+            for l in 0..lines_n {
+                let value = raw_lines[l][j].as_ref().map(|v| v.clone() * &factor);
+                // The factor holds the run's working digits.
+                let held = raw.point_losses[l][j].map(|loss| (high - loss).min(p.working_digits));
+                p.point_digits.relative[l][k] = held.filter(|_| value.is_some());
+                set_value(p, l, k, value);
+            }
+        }
+        p.point_digits.raised_bits = Some(bits);
+        work = high;
+        reason = format!("holds fewer than {wanted:.0} digits at {high:.0} working digits");
+        todo = indices
+            .iter()
+            .filter_map(|&k| plan(p, k, work, true).map(|l| (k, l)))
+            .collect();
+    }
+    // A zero of ψ: raising the precision by (work − run) digits gained at most the margin in
+    // digits relative to the value's own size (or the value is exactly 0): it is rounding noise
+    // at every precision, |ψ| there is below the absolute accuracy of the line. Such a point keeps
+    // its first value if that holds the wanted digits relative to the line's peak.
+    let run_digits = p.working_digits;
+    let mut zeros = Vec::new();
+    todo.retain(|&(k, _)| {
+        let i = original.iter().position(|o| o.0 == k).unwrap_or(0);
+        let lines: Vec<usize> = (0..lines_n)
+            .filter(|&l| first_digits[l][k].is_some())
+            .collect();
+        let before = lines
+            .iter()
+            .filter_map(|&l| first_digits[l][k])
+            .fold(f64::INFINITY, f64::min);
+        let after = min_digits(p, k, lines_n);
+        // A double-precision value beyond the double range was raised for its range: its first
+        // value is not kept.
+        let noise = !(double && p.grid[k].abs() > DOUBLE_RANGE)
+            && is_rounding_noise(before, after, run_digits, work, wanted);
+        let kept: [Option<rug::Complex>; 3] = original[i].1.clone();
+        let to_peak: Vec<Option<f64>> = lines
+            .iter()
+            .map(|&l| {
+                zero_digits_to_peak(
+                    p,
+                    l,
+                    k,
+                    kept[l].as_ref().map(CNum::abs_f64),
+                    first_digits[l][k],
+                )
+            })
+            .collect();
+        let held = to_peak
+            .iter()
+            .map(|d| d.unwrap_or(f64::NEG_INFINITY))
+            .fold(f64::INFINITY, f64::min);
+        let zero = noise && !lines.is_empty() && held >= wanted;
+        if zero {
+            zeros.push((k, before, after, held));
+            for (l, v) in kept.into_iter().enumerate().take(lines_n) {
+                set_value(p, l, k, v);
+                p.point_digits.relative[l][k] = first_digits[l][k];
+            }
+            if let (Some(res), Some(old)) = (p.residual.as_mut(), &first_residual) {
+                let absolute = old.per_point[k].map(|v| v * old.scale);
+                res.replace(&[k], &[absolute]);
+            }
+        }
+        !zero
+    });
+    let dropped: Vec<usize> = todo.iter().map(|t| t.0).collect();
+    for &k in &dropped {
+        for l in 0..lines_n {
+            if let Some(digits) = p.point_digits.relative[l][k] {
+                p.point_digits.dropped.push(PointNote {
+                    line: l,
+                    index: k,
+                    r: p.grid[k],
+                    digits,
+                    digits_relative_to_peak: None,
+                    reason: reason.clone(),
+                });
+            }
+            p.point_digits.relative[l][k] = None;
+            set_value(p, l, k, None);
+        }
+    }
+    for &(k, digits, after, held) in &zeros {
+        p.point_digits.zeros.push(PointNote {
+            line: 0,
+            index: k,
+            r: p.grid[k],
+            digits,
+            digits_relative_to_peak: Some(held),
+            reason: format!(
+                "a zero of psi: computed again with {:.0} more working digits its value {} (rounding noise at every precision); the first value is kept, holding {held:.1} digits relative to the line's peak",
+                work - run_digits,
+                if after == f64::NEG_INFINITY {
+                    "came out exactly 0".to_string()
+                } else {
+                    format!("gained {:.1} digits relative to its own size", after - digits)
+                }
+            ),
+        });
+    }
+    if let Some(res) = p.residual.as_mut() {
+        res.replace(&dropped, &vec![None; dropped.len()]);
+    }
+    if let Some(bits) = p.point_digits.raised_bits {
+        for (k, digits) in first {
+            if !dropped.contains(&k) && !zeros.iter().any(|z| z.0 == k) {
+                p.point_digits.raised.push(PointNote {
+                    line: 0,
+                    index: k,
+                    r: p.grid[k],
+                    digits,
+                    digits_relative_to_peak: None,
+                    reason: format!(
+                        "held {digits:.1} digits at the run's precision (fewer than the {wanted:.0} wanted, or beyond |r| = {DOUBLE_RANGE} in double precision); computed again at {bits} bits on every line"
+                    ),
+                });
+            }
+        }
+    }
+    Ok(())
+}
+
+/// The fewest digits relative to its own size of the values at grid point `k` (+∞ without
+/// any).
+fn min_digits(p: &Profile, k: usize, lines_n: usize) -> f64 {
+    (0..lines_n)
+        .filter_map(|l| p.point_digits.relative[l][k])
+        .fold(f64::INFINITY, f64::min)
+}
+
+/// The digits relative to the largest written |ψ| on line `l` of a zero of ψ at point `k`, of
+/// size `size` and holding `relative` digits relative to its own size: `relative +
+/// log₁₀(peak/size)`, at most the fewest such digits of the line's other values (the value is
+/// rounding noise of a computation from its neighbours; a value exactly 0 holds just that).
+fn zero_digits_to_peak(
+    p: &Profile,
+    l: usize,
+    k: usize,
+    size: Option<f64>,
+    relative: Option<f64>,
+) -> Option<f64> {
+    let line = [&p.real_line, &p.upper_line, &p.lower_line][l];
+    let peak = line.iter().flatten().map(|v| v.norm()).fold(0.0, f64::max);
+    let of = |size: f64, relative: f64| relative + (peak / size).log10();
+    let others = line
+        .iter()
+        .zip(&p.point_digits.relative[l])
+        .enumerate()
+        .filter(|&(j, _)| j != k)
+        .filter_map(|(_, (v, d))| Some((v.as_ref()?.norm(), (*d)?)))
+        .filter(|&(size, _)| size > 0.0)
+        .map(|(size, d)| of(size, d))
+        .reduce(f64::min)?;
+    match (size?, relative?) {
+        (size, relative) if size > 0.0 => Some(of(size, relative).min(others)),
+        _ => Some(others),
+    }
+}
+
+/// The written value of line `l` at point `k` (at the working precision when the profile has
+/// it).
+fn value_at(p: &Profile, l: usize, k: usize) -> Option<rug::Complex> {
+    match &p.precise {
+        Some(precise) => [&precise.real_line, &precise.upper_line, &precise.lower_line][l]
+            .get(k)
+            .cloned()
+            .flatten(),
+        None => [&p.real_line, &p.upper_line, &p.lower_line][l]
+            .get(k)
+            .copied()
+            .flatten()
+            .map(|v| rug::Complex::with_val(DOUBLE_BITS, (v.re, v.im))),
+    }
+}
+
+/// Sets the written value of line `l` at point `k` (normalized and phase-fixed; None: no value),
+/// in double precision and, when the profile has them, in the precise lines.
+fn set_value(p: &mut Profile, l: usize, k: usize, value: Option<rug::Complex>) {
+    let lines = [&mut p.real_line, &mut p.upper_line, &mut p.lower_line];
+    lines[l][k] = value.as_ref().map(|v| v.to_c64());
+    if let Some(precise) = p.precise.as_mut() {
+        let lines = [
+            &mut precise.real_line,
+            &mut precise.upper_line,
+            &mut precise.lower_line,
+        ];
+        lines[l][k] = value;
+    }
 }
 
 /// The modulus of the target at the default precision, with ν and its distance to Z.
@@ -397,6 +857,8 @@ struct Lines<T> {
     /// Cancellation losses on the three lines (R, +2π, −2π).
     losses: [f64; 3],
     strip_loss: Option<f64>,
+    /// Per point, the digits each value lost relative to its own size (R, +2π, −2π).
+    point_losses: [Vec<Option<f64>>; 3],
 }
 
 fn lines<T: CNum + Send + Sync>(
@@ -417,15 +879,21 @@ fn lines<T: CNum + Send + Sync>(
             }
         },
     );
-    let (real_line, loss) = main?;
-    let (upper_line, up_loss) = up?.unwrap_or((Vec::new(), 0.0));
-    let (lower_line, down_loss) = down?.unwrap_or((Vec::new(), 0.0));
+    let empty = || LineSamples {
+        values: Vec::new(),
+        loss: 0.0,
+        point_loss: Vec::new(),
+    };
+    let main = main?;
+    let (up, down) = (up?.unwrap_or_else(empty), down?.unwrap_or_else(empty));
+    let losses = [main.loss, up.loss, down.loss];
     Ok(Lines {
-        real_line,
-        upper_line,
-        lower_line,
-        losses: [loss, up_loss, down_loss],
-        strip_loss: strip.then_some(loss.max(up_loss).max(down_loss)),
+        real_line: main.values,
+        upper_line: up.values,
+        lower_line: down.values,
+        losses,
+        strip_loss: strip.then_some(losses[0].max(losses[1]).max(losses[2])),
+        point_losses: [main.point_loss, up.point_loss, down.point_loss],
     })
 }
 
@@ -501,11 +969,23 @@ fn sample<T: CNum + Send + Sync>(
             upper_line: scale(&raw.upper_line),
             lower_line: scale(&raw.lower_line),
             digits: raw.losses.map(|loss| working - loss),
+            factor: f,
         })
     } else {
         None
     };
     let branch_points = eig.branch_points();
+    let working = digits_of(prec);
+    let point_digits = PointDigits {
+        wanted: point_digits_wanted(options.digits),
+        relative: raw
+            .point_losses
+            .map(|line| line.iter().map(|l| l.map(|l| working - l)).collect()),
+        raised: Vec::new(),
+        raised_bits: None,
+        dropped: Vec::new(),
+        zeros: Vec::new(),
+    };
     Ok(Profile {
         level: resolved.level,
         modulus,
@@ -527,6 +1007,7 @@ fn sample<T: CNum + Send + Sync>(
         lower_line,
         precise,
         residual,
+        point_digits,
         poles: poles::strip_poles(eig.curve()),
         branch_points,
         rule,

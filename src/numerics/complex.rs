@@ -46,6 +46,8 @@ pub trait CNum:
     fn conj(&self) -> Self;
     /// |z| rounded to f64.
     fn abs_f64(&self) -> f64;
+    /// log₁₀|z| in f64, also where |z| itself leaves f64's range (−∞ at 0, NaN for NaN).
+    fn log10_abs(&self) -> f64;
     /// Re z rounded to f64.
     fn re_f64(&self) -> f64;
     /// Im z rounded to f64.
@@ -97,6 +99,9 @@ impl CNum for Complex64 {
     }
     fn abs_f64(&self) -> f64 {
         self.norm()
+    }
+    fn log10_abs(&self) -> f64 {
+        self.norm().log10()
     }
     fn re_f64(&self) -> f64 {
         self.re
@@ -174,6 +179,16 @@ impl CNum for Complex {
             v
         } else {
             Float::with_val(CNum::prec(self), self.abs_ref()).to_f64()
+        }
+    }
+    fn log10_abs(&self) -> f64 {
+        let v = self.abs_f64();
+        if v.is_nan() || (v > 1e-300 && v.is_finite()) {
+            v.log10()
+        } else {
+            Float::with_val(CNum::prec(self), self.abs_ref())
+                .log10()
+                .to_f64()
         }
     }
     fn re_f64(&self) -> f64 {

@@ -8,10 +8,16 @@
 //! # Digits
 //! In double precision the values are written with 18 significant digits (enough to read back
 //! the same double) and the grid with 12 decimals. At more than double precision the grid point
-//! is written exactly ([`Grid::point_text`]) and each value with the digits its line supports:
-//! a line accurate to `d` digits relative to its largest |ψ| gives a value v
-//! `d + log₁₀(|v|/max|ψ|)` significant digits (at least one), so that every written digit is
-//! backed by the computation.
+//! is written exactly ([`Grid::point_text`]) and each value with the digits it holds relative to
+//! its own size ([`crate::eigenfunction::profile::PointDigits`]: the working digits less the
+//! cancellation at that point and the error of the exponent integral): a part x of a value v
+//! held to `d` digits gets `d + log₁₀(|x|/|v|)` significant digits (at least one: a part far
+//! below |v|, e.g. the rounding left in Im ψ by a reality rule, is written as its order of
+//! magnitude), so that every written digit is backed by the computation.
+//!
+//! # Points without a value
+//! A value that holds fewer digits than the profile wants and could not be computed again within
+//! the budget is written `nan`, as a pole is; `psi.json` lists it with its reason.
 
 use crate::eigenfunction::profile::Profile;
 use crate::input::grid::Grid;
@@ -36,20 +42,16 @@ pub fn samples(grid: &[f64], values: &[Option<Complex64>], im_r: Option<f64>) ->
 }
 
 /// The CSV text of samples `values` at working precision at the points of `grid`, each with the
-/// digits the line supports (`digits` relative to its largest |ψ|), on the line Im r = `im_r`
-/// when given.
+/// digits it holds: `digits[k]` relative to its own size (None: a pole or no value, written
+/// `nan`), on the line Im r = `im_r` when given.
 pub fn precise_samples(
     grid: &Grid,
     values: &[Option<Complex>],
-    digits: f64,
+    digits: &[Option<f64>],
     im_r: Option<&Float>,
 ) -> String {
-    let peak = values
-        .iter()
-        .flatten()
-        .map(|v| Float::with_val(v.prec().0, v.abs_ref()).to_f64())
-        .fold(0.0, f64::max);
-    let grid_digits = digits.ceil().max(17.0) as u32;
+    let most = digits.iter().flatten().copied().fold(0.0, f64::max);
+    let grid_digits = most.ceil().max(17.0) as u32;
     let mut out = String::from(header(im_r.is_some()));
     for (k, v) in values.iter().enumerate() {
         out.push_str(&grid.point_text(k, grid_digits));
@@ -58,25 +60,30 @@ pub fn precise_samples(
             out.push_str(&im.to_string_radix(10, Some(grid_digits as usize)));
             out.push(',');
         }
-        match v {
-            Some(v) => out.push_str(&format!(
-                "{},{}\n",
-                part(v.real(), peak, digits),
-                part(v.imag(), peak, digits)
-            )),
-            None => out.push_str("nan,nan\n"),
+        match (v, digits.get(k).copied().flatten()) {
+            (Some(v), Some(d)) => {
+                let size = Float::with_val(v.prec().0, v.abs_ref());
+                out.push_str(&format!(
+                    "{},{}\n",
+                    part(v.real(), &size, d),
+                    part(v.imag(), &size, d)
+                ))
+            }
+            _ => out.push_str("nan,nan\n"),
         }
     }
     out
 }
 
-/// One real part with `digits + log₁₀(|x|/peak)` significant digits (at least one).
-fn part(x: &Float, peak: f64, digits: f64) -> String {
+/// One part x of a value of size `size` held to `digits` digits relative to that size, with
+/// `digits + log₁₀(|x|/size)` significant digits (at least one: a part far below the value's
+/// size is written as its order of magnitude).
+fn part(x: &Float, size: &Float, digits: f64) -> String {
     if x.is_zero() {
         return "0".into();
     }
-    let relative = x.to_f64().abs() / peak;
-    let significant = (digits + relative.log10()).floor().max(1.0) as usize;
+    let relative = Float::with_val(53, x.abs_ref()).log10() - Float::with_val(53, size.log10_ref());
+    let significant = (digits + relative.to_f64()).floor().max(1.0) as usize;
     x.to_string_radix(10, Some(significant))
 }
 
@@ -99,10 +106,11 @@ mod tests {
             let x = Float::with_val(200, Float::parse(re).unwrap()) / 3u32;
             Some(Complex::with_val(200, (x, 0)))
         };
-        let text = precise_samples(&grid, &[v("1"), v("1e-10"), None], 30.0, None);
+        let digits = [Some(30.0), Some(20.0), None];
+        let text = precise_samples(&grid, &[v("1"), v("1e-10"), None], &digits, None);
         let lines: Vec<&str> = text.lines().collect();
         assert_eq!(lines[0], "r,re_psi,im_psi");
-        // 1/3 with 30 digits, 1e-10/3 with 20, a pole as nan.
+        // 1/3 with its 30 digits, 1e-10/3 with its 20, a pole as nan.
         assert!(
             lines[1].starts_with("-1,3.33333333333333333333333333333e-1,0"),
             "{}",
@@ -136,29 +144,25 @@ pub fn profile_files(p: &Profile, strip: bool) -> Vec<(&'static str, String)> {
         }
         out.push(("residual.csv", text));
     }
+    let held = &p.point_digits.relative;
     match &p.precise {
         Some(lines) => {
             let two_pi = Float::with_val(p.precision_bits, rug::float::Constant::Pi) * 2u32;
             out.push((
                 "psi.csv",
-                precise_samples(&p.grid_spec, &lines.real_line, lines.digits[0], None),
+                precise_samples(&p.grid_spec, &lines.real_line, &held[0], None),
             ));
             if strip {
                 out.push((
                     "psi_up.csv",
-                    precise_samples(
-                        &p.grid_spec,
-                        &lines.upper_line,
-                        lines.digits[1],
-                        Some(&two_pi),
-                    ),
+                    precise_samples(&p.grid_spec, &lines.upper_line, &held[1], Some(&two_pi)),
                 ));
                 out.push((
                     "psi_down.csv",
                     precise_samples(
                         &p.grid_spec,
                         &lines.lower_line,
-                        lines.digits[2],
+                        &held[2],
                         Some(&Float::with_val(p.precision_bits, -&two_pi)),
                     ),
                 ));

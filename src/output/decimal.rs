@@ -58,6 +58,11 @@ pub fn sci(x: f64) -> String {
     format!("{x:.1e}")
 }
 
+/// [`sci`] of a value that may be missing ("–": e.g. a residual formed at no point).
+pub fn sci_opt(x: Option<f64>) -> String {
+    x.map(sci).unwrap_or_else(|| "–".into())
+}
+
 /// One decimal place (agreement digits are reported to a tenth).
 pub fn round1(x: f64) -> f64 {
     (x * 10.0).round() / 10.0

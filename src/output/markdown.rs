@@ -5,7 +5,7 @@ use crate::checks::audit::Audit;
 use crate::checks::level::LevelAudit;
 use crate::eigenfunction::profile::Profile;
 use crate::numerics::complex::CNum;
-use crate::output::decimal::{decimal, sci, supported_digits};
+use crate::output::decimal::{decimal, sci, sci_opt, supported_digits};
 use crate::output::tables::tail_text;
 use crate::precision::digits_for_bits;
 use crate::TOOL_VERSION;
@@ -14,11 +14,7 @@ use crate::TOOL_VERSION;
 fn level_row(l: &LevelAudit) -> String {
     let p = &l.profile;
     let spectrum_digits = supported_digits(&l.spectrum_value, l.spectrum_error, 30);
-    let residual = p
-        .residual
-        .as_ref()
-        .map(|r| sci(r.max))
-        .unwrap_or_else(|| "–".into());
+    let residual = sci_opt(p.residual.as_ref().and_then(|r| r.max));
     format!(
         "| {} | {} | {} | {} | {:.1} | {} | {} | {} | {:.3} / {:.3} | {} | {} |\n",
         l.level,
@@ -185,7 +181,7 @@ pub fn tour_markdown(
         let residual = a
             .levels
             .iter()
-            .filter_map(|l| l.profile.residual.as_ref().map(|r| r.max))
+            .filter_map(|l| l.profile.residual.as_ref().and_then(|r| r.max))
             .fold(0.0, f64::max);
         let norm = a
             .levels
@@ -242,8 +238,8 @@ pub fn tour_markdown(
     if let Some(r) = &p.residual {
         out.push_str(&format!(
             "- Eigen-equation residual: max {} and rms {} relative to max|ψ| (working precision ≈ 1e-{}).\n",
-            sci(r.max),
-            sci(r.rms),
+            sci_opt(r.max),
+            sci_opt(r.rms),
             p.working_digits.floor()
         ));
     }

@@ -16,7 +16,7 @@ use crate::curve::attractor::Attractor;
 use crate::curve::laurent::Laurent;
 use crate::curve::periods::Comparison;
 use crate::eigenfunction::poles::Pole;
-use crate::eigenfunction::profile::Profile;
+use crate::eigenfunction::profile::{PointNote, Profile};
 use crate::lattice::catalogue::Family;
 use crate::lattice::polygon::{LatticePoint, Mat2};
 use crate::operator::spectrum::Spectrum;
@@ -475,6 +475,12 @@ pub struct LevelRecord {
     pub residual_max: Option<f64>,
     pub residual_rms: Option<f64>,
     pub residual_points_with_pole_limits: Option<usize>,
+    pub residual_points_without_value: Option<usize>,
+    /// Grid points on R without a value (written as nan; left out of the norm on the grid and
+    /// the tail zeros).
+    pub points_without_value: usize,
+    /// Bound on the share of the mass inside the grid those points may carry.
+    pub excluded_mass_bound: f64,
     pub norm: f64,
     pub norm_on_grid: f64,
     pub norm_tail_fraction: f64,
@@ -506,9 +512,12 @@ impl From<&LevelAudit> for LevelRecord {
             spectrum_error_estimate: sci(l.spectrum_error),
             agreement_digits: round1(l.agreement_digits),
             agreement_cap_digits: round1(l.agreement_cap),
-            residual_max: p.residual.as_ref().map(|r| r.max),
-            residual_rms: p.residual.as_ref().map(|r| r.rms),
+            residual_max: p.residual.as_ref().and_then(|r| r.max),
+            residual_rms: p.residual.as_ref().and_then(|r| r.rms),
             residual_points_with_pole_limits: p.residual.as_ref().map(|r| r.pole_limits),
+            residual_points_without_value: p.residual.as_ref().map(|r| r.points_without_value),
+            points_without_value: l.grid_points_without_value,
+            excluded_mass_bound: l.excluded_mass_bound,
             norm: l.norm,
             norm_on_grid: l.norm_on_grid,
             norm_tail_fraction: p.normalization.tail,
@@ -710,9 +719,52 @@ pub struct ProfileChecks {
     pub eigen_equation_residual_max: Option<f64>,
     pub eigen_equation_residual_rms: Option<f64>,
     pub residual_points_with_pole_limits: Option<usize>,
+    pub residual_points_formed: Option<usize>,
+    pub residual_points_without_value: Option<usize>,
     pub residual_note: &'static str,
     pub decay_rate_left: f64,
     pub decay_rate_right: f64,
+}
+
+/// The per-point digits of a profile in `psi.json`.
+#[derive(Debug, Clone, Serialize)]
+pub struct PointDigitsRecord {
+    pub rule: &'static str,
+    /// Digits every written value must hold relative to its own size.
+    pub wanted: f64,
+    /// The fewest digits of a written value relative to its own size, on R and on the two
+    /// boundary lines (None: not sampled or no value).
+    pub relative_min_on_r: Option<f64>,
+    pub relative_min_on_strip_lines: Option<f64>,
+    /// Points computed again at a raised precision, and its bits.
+    pub raised: Vec<PointNote>,
+    pub raised_precision_bits: Option<u32>,
+    /// Points written as nan because no value with the wanted digits was within the budget.
+    pub without_value: Vec<PointNote>,
+    /// Zeros of psi: values that stayed rounding noise when the precision was raised, kept with
+    /// their digits relative to the line's peak (not counted in the minima above).
+    pub zeros: Vec<PointNote>,
+}
+
+impl PointDigitsRecord {
+    /// The record of the per-point digits of `p`.
+    pub fn new(p: &Profile) -> Self {
+        let d = &p.point_digits;
+        let strip = [d.min_relative(1), d.min_relative(2)]
+            .into_iter()
+            .flatten()
+            .reduce(f64::min);
+        PointDigitsRecord {
+            rule: "each value holds the working digits less the cancellation in chi - chi o iota at its point and the error of the exponent integral (log10(1 + |e|/2pi)); values with fewer than `wanted` digits are computed again at a raised precision (within a budget of 100 digits above the working digits), else written as nan and listed here; a value whose own digits do not grow when the precision is raised is a zero of psi, kept with its digits relative to the line's peak",
+            wanted: d.wanted,
+            relative_min_on_r: d.min_relative(0),
+            relative_min_on_strip_lines: strip,
+            raised: d.raised.clone(),
+            raised_precision_bits: d.raised_bits,
+            without_value: d.dropped.clone(),
+            zeros: d.zeros.clone(),
+        }
+    }
 }
 
 /// `psi.json` of `regwave build` (body).
@@ -728,8 +780,10 @@ pub struct ProfileRecord {
     pub spine_im: f64,
     pub lambda_digits_lost: f64,
     pub cancellation_digits_lost_on_r: f64,
-    pub digits_left_min_on_r: f64,
+    /// The fewest digits of a value on R relative to the largest |ψ| on R (per point).
+    pub digits_left_min_on_r: Option<f64>,
     pub cancellation_digits_lost_on_strip_lines: Option<f64>,
+    pub point_digits: PointDigitsRecord,
     pub phase_rule: PhaseRuleRecord,
     pub normalization: NormalizationRecord,
     pub checks: ProfileChecks,
@@ -764,8 +818,9 @@ impl ProfileRecord {
             spine_im: p.spine,
             lambda_digits_lost: p.lambda_digits_lost,
             cancellation_digits_lost_on_r: p.cancellation_digits,
-            digits_left_min_on_r: p.working_digits - p.cancellation_digits,
+            digits_left_min_on_r: p.digits_left_min_on_r(),
             cancellation_digits_lost_on_strip_lines: p.strip_cancellation_digits,
+            point_digits: PointDigitsRecord::new(p),
             phase_rule,
             normalization: NormalizationRecord {
                 rule: "unit L2 norm on R; with a phase rule, exp(-i k r^2/(8 pi)) psi real and positive where |psi| is largest on the grid, else psi itself",
@@ -778,9 +833,11 @@ impl ProfileRecord {
             checks: ProfileChecks {
                 decay_power_left: n.decay_power[0],
                 decay_power_right: n.decay_power[1],
-                eigen_equation_residual_max: p.residual.as_ref().map(|r| r.max),
-                eigen_equation_residual_rms: p.residual.as_ref().map(|r| r.rms),
+                eigen_equation_residual_max: p.residual.as_ref().and_then(|r| r.max),
+                eigen_equation_residual_rms: p.residual.as_ref().and_then(|r| r.rms),
                 residual_points_with_pole_limits: p.residual.as_ref().map(|r| r.pole_limits),
+                residual_points_formed: p.residual.as_ref().map(|r| r.points_formed),
+                residual_points_without_value: p.residual.as_ref().map(|r| r.points_without_value),
                 residual_note: "A psi(r-2pi i) + C psi(r+2pi i) - (B+a) psi(r), each value integrated along its own route, relative to max|psi| on the grid; at poles of psi the products are evaluated as limits (needs --strip)",
                 decay_rate_left: n.decay[0],
                 decay_rate_right: n.decay[1],

@@ -8,7 +8,7 @@ use crate::curve::laurent::Laurent;
 use crate::curve::periods::Comparison;
 use crate::lattice::catalogue::Family;
 use crate::operator::spectrum::Spectrum;
-use crate::output::decimal::{decimal, sci, supported_digits};
+use crate::output::decimal::{decimal, sci, sci_opt, supported_digits};
 use rug::Float;
 
 /// `regwave families` as a table.
@@ -225,10 +225,25 @@ pub fn check_text(family: &str, c: &Check, elapsed_s: f64) -> String {
     if let Some(r) = &p.residual {
         out.push_str(&format!(
             "  eigen-equation residual (max / rms)    {} / {} on {} points ({} pole products as limits)\n",
-            sci(r.max),
-            sci(r.rms),
-            p.grid.len(),
+            sci_opt(r.max),
+            sci_opt(r.rms),
+            r.points_formed,
             r.pole_limits
+        ));
+        if r.points_without_value > 0 {
+            out.push_str(&format!(
+                "  residual NOT formed at {} of {} points: psi has no value there (see points_without_value)\n",
+                r.points_without_value,
+                p.grid.len()
+            ));
+        }
+    }
+    if l.grid_points_without_value > 0 {
+        out.push_str(&format!(
+            "  {} of {} grid points on R have no value (nan), left out of the norm inside the grid (they may carry up to {} of it) and of the tail zeros\n",
+            l.grid_points_without_value,
+            p.grid.len(),
+            sci(l.excluded_mass_bound)
         ));
     }
     out.push_str(&format!(
@@ -292,8 +307,12 @@ pub(crate) fn tail_text(t: &TailZeros) -> String {
         .predicted
         .map(|c| format!("{c:.2}"))
         .unwrap_or_else(|| "none (roots meet at this end)".into());
+    let missing = match t.points_without_value {
+        0 => String::new(),
+        n => format!(", {n} points without a value not searched"),
+    };
     format!(
-        "{} zeros, s·|r|/π² = {measured} (predicted {predicted})",
+        "{} zeros, s·|r|/π² = {measured} (predicted {predicted}){missing}",
         t.count
     )
 }
