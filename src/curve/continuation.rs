@@ -207,7 +207,7 @@ pub fn continue_sheet<T: CNum>(
                 .max(tolerance(start.z.prec(), 16) * (1.0 + here.z.abs_f64()));
             if d < floor {
                 return Err(CoverError::ThroughSingularPoint {
-                    z: format!("{:?}", here.z.to_c64()),
+                    z: crate::numerics::complex::show(here.z.to_c64()),
                     distance: d,
                 });
             }
@@ -343,7 +343,7 @@ fn follow<T: CNum>(
     let gap = far / near.max(scale * tolerance(z.prec(), SUM_ROUNDING_BITS));
     if gap < SEPARATION_RATIO {
         return Err(CoverError::SheetAmbiguous {
-            z: format!("{:?}", z.to_c64()),
+            z: crate::numerics::complex::show(z.to_c64()),
             gap,
         });
     }

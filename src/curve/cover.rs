@@ -337,7 +337,7 @@ impl<T: CNum> Curve<T> {
         let (d, separation) = Self::sheet_of(&self.fiber(&p.z), &p.y);
         if separation < SEPARATION_RATIO {
             return Err(CoverError::SheetAmbiguous {
-                z: format!("{:?}", p.z.to_c64()),
+                z: crate::numerics::complex::show(p.z.to_c64()),
                 gap: separation,
             });
         }

@@ -249,3 +249,8 @@ mod tests {
         }
     }
 }
+
+/// `z` as readable text for messages, e.g. `234.836928+3.141593i`.
+pub fn show(z: Complex64) -> String {
+    format!("{:.6}{:+.6}i", z.re, z.im)
+}
