@@ -9,3 +9,5 @@ pub mod cover;
 pub mod cycles;
 pub mod laurent;
 pub mod periods;
+pub mod picard_fuchs;
+pub mod series_periods;
