@@ -28,6 +28,7 @@
 //! perturbative quantization volumes, "Topological strings from quantum mechanics",
 //! arXiv:1410.3382 (2014).
 
+use crate::curve::asymptotics;
 use crate::curve::constant_terms::RecurrenceError;
 use crate::curve::laurent::Laurent;
 use crate::curve::periods::{self, CyclePeriods, PeriodsError};
@@ -109,6 +110,9 @@ pub struct Attractor {
     pub imaginary_part: f64,
     /// Working precision of the reported value.
     pub precision_bits: u32,
+    /// `Area(Δ°)·(log a_n)² − 4π²(n + ½)` ([`crate::curve::asymptotics::volume_gap`]): tends to
+    /// minus the constant of the perturbative volume, with exponentially small corrections.
+    pub volume_gap: f64,
 }
 
 /// The higher normal function ν(a) of one family as a function of the modulus: φ, and its
@@ -405,6 +409,8 @@ pub fn solve_levels_at(
     check_reach(&levels)?;
     let check_bits = confirming_bits(bits);
     let mut fam = HigherNormalFunction::new(laurent)?.with_series(check_bits)?;
+    let points: Vec<[i64; 2]> = laurent.terms().iter().map(|t| t.0).collect();
+    let polar_area = asymptotics::polar_twice_area(&points).unwrap_or(0);
     // Phase 1 (sequential, double precision): each level's root seeds the next guess.
     let mut roots: Vec<(usize, i64, f64)> = Vec::new();
     let mut previous: Vec<(f64, f64)> = Vec::new(); // (k, t)
@@ -453,7 +459,9 @@ pub fn solve_levels_at(
             } else {
                 -rel.log10()
             };
+            let volume_gap = asymptotics::volume_gap(polar_area, &t_work, level).to_f64();
             Ok(Attractor {
+                volume_gap,
                 level,
                 nu: k,
                 log_modulus: t_work,

@@ -2,6 +2,7 @@
 //! constant terms, the double cover over the z-plane, periods and regulator periods, and the
 //! attractor moduli.
 
+pub mod asymptotics;
 pub mod attractor;
 pub mod constant_terms;
 pub mod continuation;

@@ -241,8 +241,21 @@ impl SeriesMethod {
     /// # Errors
     /// As [`SeriesMethod::periods`].
     pub fn periods_log(&self, a: &Complex, ell: &Complex) -> Result<SeriesPeriods, SeriesError> {
+        let k = self.constants(a.prec().0)?;
+        self.periods_with(a, ell, &k)
+    }
+
+    /// As [`SeriesMethod::periods_log`] with the β constants given.
+    ///
+    /// # Errors
+    /// [`PicardFuchsError::OutsideRadius`]; coefficient errors of the operator.
+    pub fn periods_with(
+        &self,
+        a: &Complex,
+        ell: &Complex,
+        k: &BetaConstants,
+    ) -> Result<SeriesPeriods, SeriesError> {
         let bits = a.prec().0;
-        let k = self.constants(bits)?;
         let t = Complex::with_val(bits, a.recip_ref());
         let s = self.operator.sums(&t)?;
         let two_pi_i = t.int_like(2) * t.pi_like() * t.i_like();

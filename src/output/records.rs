@@ -411,6 +411,9 @@ pub struct AttractorRecord {
     pub digits: u32,
     pub residual: String,
     pub imaginary_part_of_nu: String,
+    /// Area(Δ°)·(ln a_n)² − 4π²(n + 1/2): minus the constant of the perturbative volume, up to
+    /// exponentially small terms.
+    pub volume_gap: String,
 }
 
 impl From<&Attractor> for AttractorRecord {
@@ -423,6 +426,7 @@ impl From<&Attractor> for AttractorRecord {
             digits: a.digits,
             residual: sci(a.residual),
             imaginary_part_of_nu: sci(a.imaginary_part),
+            volume_gap: format!("{:.15}", a.volume_gap),
         }
     }
 }

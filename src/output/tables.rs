@@ -166,22 +166,19 @@ pub fn periods_table(
 /// `regwave attractors` as a table.
 pub fn attractors_table(family: &str, list: &[Attractor], digits: u32, elapsed_s: f64) -> String {
     let mut out = format!("family {family}: attractor moduli (nu(a) integer, level n <-> nu = n + 1), {digits} digits, {elapsed_s:.2} s\n\n");
+    let width = (digits as usize + 8).max(12);
     out.push_str(&format!(
-        "{:>5} {:>4}  {:<width$}  {}\n",
-        "level",
-        "nu",
-        "a_n",
-        "ln a_n",
-        width = (digits as usize + 8).max(12)
+        "{:>5} {:>4}  {:<width$}  {:<width$}  {}\n",
+        "level", "nu", "a_n", "ln a_n", "volume gap"
     ));
     for a in list {
         out.push_str(&format!(
-            "{:>5} {:>4}  {:<width$}  {}\n",
+            "{:>5} {:>4}  {:<width$}  {:<width$}  {:.12}\n",
             a.level,
             a.nu,
             decimal(&a.modulus, a.digits.max(1)),
             decimal(&a.log_modulus, a.digits.max(1)),
-            width = (digits as usize + 8).max(12)
+            a.volume_gap,
         ));
     }
     let short: Vec<String> = list
@@ -195,7 +192,7 @@ pub fn attractors_table(family: &str, list: &[Attractor], digits: u32, elapsed_s
             short.join(", ")
         ));
     }
-    out.push_str("\nDigits shown are those confirmed by a second solve at higher precision (numerical evidence, not proofs).\n");
+    out.push_str("\nDigits shown are those confirmed by a second solve at higher precision (numerical evidence, not proofs).\nvolume gap: Area(polar polygon)*(ln a_n)^2 - 4 pi^2 (n + 1/2), tending to minus the constant of the perturbative volume.\n");
     out
 }
 
