@@ -200,7 +200,7 @@ impl HigherNormalFunction {
         let ac = Complex::with_val(bits, (a, 0));
         let (nu, nu_da, nu_daa) = match self.series_at(a) {
             Some(m) => {
-                let p = m.periods(&ac)?;
+                let p = m.periods(&ac)?.derived;
                 (p.nu, p.nu_da, p.nu_daa)
             }
             None => {

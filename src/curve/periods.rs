@@ -255,11 +255,16 @@ pub struct Periods<T> {
 }
 
 /// τ, ν and the derivatives of ν from the periods of α and β (by any method).
-#[derive(Debug, Clone)]
+#[derive(Debug, Clone, serde::Serialize)]
+#[serde(bound(serialize = "T: CNum"))]
 pub struct NuParts<T> {
+    #[serde(serialize_with = "serial::complex")]
     pub tau: T,
+    #[serde(serialize_with = "serial::complex")]
     pub nu: T,
+    #[serde(serialize_with = "serial::complex")]
     pub nu_da: T,
+    #[serde(serialize_with = "serial::complex")]
     pub nu_daa: T,
     pub nu_error: f64,
 }

@@ -66,7 +66,9 @@ use crate::curve::constant_terms::{Recurrence, RecurrenceError};
 use crate::curve::cover::{CoverError, Curve};
 use crate::curve::laurent::Laurent;
 use crate::numerics::roots::{polynomial_roots, RootsError};
-use crate::precision::{frobenius_terms, SINGULAR_POINT_BITS, SINGULAR_POINT_SPLIT};
+use crate::precision::{
+    frobenius_terms, FROBENIUS_MAX_TERMS, SINGULAR_POINT_BITS, SINGULAR_POINT_SPLIT,
+};
 use rug::ops::Pow;
 use rug::{Complex, Float, Integer, Rational};
 use std::sync::{Arc, Mutex};
@@ -100,6 +102,9 @@ pub enum PicardFuchsError {
     /// |a| not above the radius of convergence.
     #[error("the series at a = infinity needs |a| > {radius}, got |a| = {modulus}")]
     OutsideRadius { modulus: f64, radius: f64 },
+    /// So close to the radius that the series would need too many terms.
+    #[error("the series at a = infinity would need {needed} terms this close to its radius (at most {max})")]
+    TooManyTerms { needed: usize, max: usize },
     /// No singular point other than t = 0 makes the curve singular.
     #[error("the operator has no singular point where the curve degenerates")]
     NoCriticalValue,
@@ -273,7 +278,7 @@ impl PicardFuchs {
     /// The Frobenius sums at t = 1/a for |a| > radius, at the precision of `t`.
     ///
     /// # Errors
-    /// [`PicardFuchsError::OutsideRadius`]; [`PicardFuchsError::Recurrence`],
+    /// [`PicardFuchsError::OutsideRadius`], [`PicardFuchsError::TooManyTerms`]; [`PicardFuchsError::Recurrence`],
     /// [`PicardFuchsError::Resonance`] while extending the coefficients.
     pub fn sums(&self, t: &Complex) -> Result<FrobeniusSums, PicardFuchsError> {
         let bits = t.prec().0;
@@ -285,6 +290,12 @@ impl PicardFuchs {
             });
         }
         let n = frobenius_terms(q, bits);
+        if n > FROBENIUS_MAX_TERMS {
+            return Err(PicardFuchsError::TooManyTerms {
+                needed: n,
+                max: FROBENIUS_MAX_TERMS,
+            });
+        }
         let c = self.coefficients(n)?;
         let zero = || Complex::new(bits);
         let (mut f, mut g) = ([zero(), zero(), zero()], [zero(), zero(), zero()]);

@@ -95,15 +95,9 @@ pub struct SeriesMethod {
 pub struct SeriesPeriods {
     pub alpha: CyclePeriods<Complex>,
     pub beta: CyclePeriods<Complex>,
-    #[serde(serialize_with = "serial::complex")]
-    pub tau: Complex,
-    #[serde(serialize_with = "serial::complex")]
-    pub nu: Complex,
-    #[serde(serialize_with = "serial::complex")]
-    pub nu_da: Complex,
-    #[serde(serialize_with = "serial::complex")]
-    pub nu_daa: Complex,
-    pub nu_error: f64,
+    /// τ, ν, dν/da, d²ν/da² and the error of ν.
+    #[serde(flatten)]
+    pub derived: NuParts<Complex>,
     /// Terms of the Frobenius series summed.
     pub terms: usize,
 }
@@ -270,21 +264,11 @@ impl SeriesMethod {
         let r_beta = reg + Complex::with_val(bits, &k.c);
         let mut beta = cycle(&h, r_beta, &t, &two_pi_i, s.tail, bits);
         beta.error += k.error * (beta.omega.abs_f64() + beta.regulator.abs_f64());
-        let NuParts {
-            tau,
-            nu,
-            nu_da,
-            nu_daa,
-            nu_error,
-        } = nu_parts(&alpha, &beta);
+        let derived = nu_parts(&alpha, &beta);
         Ok(SeriesPeriods {
             alpha,
             beta,
-            tau,
-            nu,
-            nu_da,
-            nu_daa,
-            nu_error,
+            derived,
             terms: s.terms,
         })
     }
@@ -408,8 +392,8 @@ pub fn compare(laurent: &Laurent, a: &Complex) -> Result<TwoMethods, PeriodsErro
         r_alpha: digits_agreeing(&s.alpha.regulator, &path.alpha.regulator),
         omega_beta: digits_agreeing(&s.beta.omega, &path.beta.omega),
         r_beta: digits_agreeing(&s.beta.regulator, &path.beta.regulator),
-        tau: digits_agreeing(&s.tau, &path.tau),
-        nu: digits_agreeing(&s.nu, &path.nu),
+        tau: digits_agreeing(&s.derived.tau, &path.tau),
+        nu: digits_agreeing(&s.derived.nu, &path.nu),
     });
     Ok(TwoMethods {
         series,

@@ -133,8 +133,8 @@ pub fn periods_table(
                 &s.alpha.regulator,
                 &s.beta.omega,
                 &s.beta.regulator,
-                &s.tau,
-                &s.nu,
+                &s.derived.tau,
+                &s.derived.nu,
             ];
             let agree = [
                 ag.omega_alpha,
