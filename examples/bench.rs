@@ -47,7 +47,7 @@ fn main() {
     }
     println!("  worst: {worst_single:.2} s (N = 200) | {worst_pair:.2} s (with the check)");
 
-    println!("target: attractor moduli, levels 0..9 of all 15 families at 30 digits, under 10 s total on 2 cores");
+    println!("target: attractor moduli, levels 0..9 of all 15 families at 30 digits, under 1 s total on 2 cores");
     let t = Instant::now();
     let fams: Vec<&catalogue::Family> = catalogue::all().iter().filter(|f| f.applicable).collect();
     let results: Vec<(String, f64, u32)> = fams
@@ -65,18 +65,35 @@ fn main() {
     }
     println!("  total {:.2} s wall clock", t.elapsed().as_secs_f64());
 
+    println!("target: attractor moduli, levels 0..1000 of one family at 100 digits, under 60 s");
+    for id in ["F0", "P2", "dP3"] {
+        let laurent = Laurent::tempered(&catalogue::by_id(id).expect("id").polygon());
+        let t = Instant::now();
+        let at = attractor::solve_levels(&laurent, 0..=1000, 100).expect("attractors");
+        let min_digits = at.iter().map(|a| a.digits).min().unwrap_or(0);
+        println!(
+            "  {id:<5} {:.2} s (1001 levels, all confirmed to >= {min_digits} digits)",
+            t.elapsed().as_secs_f64()
+        );
+    }
+    println!(
+        "target: one attractor modulus at 60 digits (F0 level 0), at most 40 ms as a whole process"
+    );
+    println!(
+        "  (measure the process: `time regwave attractors --family F0 --levels 0..0 --digits 60`)"
+    );
+
     println!("target: one periods call at 50 digits under 1 s");
     for id in ["F0", "P2", "dP3", "Q7"] {
         let laurent = Laurent::tempered(&catalogue::by_id(id).expect("id").polygon());
         let t = Instant::now();
-        let terms = laurent.constant_terms(2000).expect("terms");
         let bits = regwave::precision::with_guard(regwave::precision::bits_for_digits(50.0));
         let a = rug::Complex::with_val(bits, 200);
-        let c = regwave::curve::periods::compare(&laurent, &a, &terms).expect("periods");
+        let c = regwave::curve::series_periods::compare(&laurent, &a).expect("periods");
         println!(
             "  {id:<5} a = 200: {:.3} s (series/path agreement {:.1} digits)",
             t.elapsed().as_secs_f64(),
-            c.agreement_digits.unwrap_or(0.0)
+            c.agreement.map_or(0.0, |g| g.worst())
         );
     }
 

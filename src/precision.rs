@@ -376,6 +376,54 @@ pub fn spectrum_bits(condition_bits: f64, digits: u32) -> u32 {
     with_guard(condition_bits.max(0.0).ceil() as u32 + bits_for_digits(digits as f64))
 }
 
+// ---------------------------------------------------------------------------------------------
+// Series at the large-modulus point
+
+/// Terms of the Frobenius series at a = ∞ for `bits` bits at q = radius/|a| < 1: the least N
+/// with `q^N N² ≤ 2^{−bits−16}` (coefficients grow like radiusⁿ times a power of n, the
+/// logarithmic ones one power more; 16 bits cover the rounding of the sums), at least 4.
+/// Usize::MAX for q ≥ 1 (no convergence).
+pub fn frobenius_terms(q: f64, bits: u32) -> usize {
+    if !(q < 1.0) {
+        return usize::MAX;
+    }
+    if q <= 0.0 {
+        return 4;
+    }
+    let target = (bits + 16) as f64 * std::f64::consts::LN_2;
+    let mut n = (target / -q.ln()).ceil().max(4.0);
+    for _ in 0..4 {
+        n = ((target + 2.0 * n.ln()) / -q.ln()).ceil().max(4.0);
+    }
+    n as usize
+}
+
+/// Most terms of the Frobenius series summed (closer to the radius the series is not used): 1.1 ×
+/// the radius at 100 digits needs about 2,500; the exact coefficients cost ≈ 0.4 s per 2,500.
+pub const FROBENIUS_MAX_TERMS: usize = 6000;
+
+/// Bits at which the singular points of the Picard–Fuchs operator are located and classified:
+/// at 256 bits a double zero of the discriminant splits by about 2^-128 ≈ 3e-39 (relative).
+pub const SINGULAR_POINT_BITS: u32 = 256;
+
+/// Two zeros of the discriminant closer than this (relative) are one double zero: far above the
+/// split 3e-39 of a double zero at [`SINGULAR_POINT_BITS`], far below the separations ≥ 1e-3 of
+/// the simple zeros at the apparent singularities of the 15 families (measured,
+/// `tests/periods.rs`).
+pub const SINGULAR_POINT_SPLIT: f64 = 1e-20;
+
+/// Largest q = radius/|a| at which the attractor solver uses the series at a = ∞ (beyond, the
+/// paths): 0.9 needs about 25 terms per digit; every attractor modulus of the 15 families has
+/// q < 0.4 (measured).
+pub const SERIES_MAX_RATIO: f64 = 0.9;
+
+/// Bits of the path integration that fixes the constants of the β series: the working bits plus
+/// 16, so that the matched constants carry the working precision after the 2-digit loss of the
+/// paths ([`path_digits`]).
+pub fn matching_bits(bits: u32) -> u32 {
+    bits + 16
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;

@@ -632,7 +632,18 @@ fn periods_json_contract() {
     ] {
         assert!(v.get(key).is_some(), "missing {key}");
     }
-    assert!(v["agreement_digits"].as_f64().unwrap() >= 30.0);
+    // Series and path agree on every value (Ω, R over α and β, τ, ν).
+    for key in [
+        "omega_alpha",
+        "r_alpha",
+        "omega_beta",
+        "r_beta",
+        "tau",
+        "nu",
+    ] {
+        let d = v["agreement_digits"][key].as_f64().unwrap();
+        assert!(d >= 30.0, "{key}: {d} digits");
+    }
     let nu_re: f64 = v["nu"]["re"].as_str().unwrap().parse().unwrap();
     assert!((nu_re - 1.0).abs() < NU_AT_CHECKED_VALUE, "{nu_re}");
 }

@@ -28,13 +28,16 @@
 //! perturbative quantization volumes, "Topological strings from quantum mechanics",
 //! arXiv:1410.3382 (2014).
 
+use crate::curve::asymptotics;
 use crate::curve::constant_terms::RecurrenceError;
 use crate::curve::laurent::Laurent;
 use crate::curve::periods::{self, CyclePeriods, PeriodsError};
+use crate::curve::series_periods::{SeriesError, SeriesMethod};
 use crate::numerics::complex::CNum;
 use crate::numerics::serial;
 use crate::precision::{
-    confirming_bits, tolerance, working_bits, SEARCH_FALLBACK_BITS, SUM_ROUNDING_BITS,
+    confirming_bits, tolerance, working_bits, SEARCH_FALLBACK_BITS, SERIES_MAX_RATIO,
+    SUM_ROUNDING_BITS,
 };
 use num_complex::Complex64;
 use rayon::prelude::*;
@@ -52,6 +55,8 @@ pub enum AttractorError {
     Periods(#[from] PeriodsError),
     #[error(transparent)]
     ConstantTerms(#[from] RecurrenceError),
+    #[error(transparent)]
+    Series(#[from] SeriesError),
     /// ν was not real on the real axis (the β cycle is not real there).
     #[error("ν({a}) has imaginary part {im:e}: not real on the spectral range")]
     NotReal { a: f64, im: f64 },
@@ -62,15 +67,16 @@ pub enum AttractorError {
     #[error("the root of ν = {target} did not converge (last step {step:e})")]
     NoConvergence { target: i64, step: f64 },
     /// A level above [`MAX_LEVEL`].
-    #[error("level {level} is beyond the levels regwave solves (0 to {max}): above them the branch points of the curve crowd closer than the double-precision layout of the β cycle resolves for some families")]
+    #[error("level {level} is beyond the levels regwave solves (0 to {max}): the solve is measured to level {max} for every family")]
     BeyondReach { level: usize, max: usize },
 }
 
-/// The highest level whose attractor modulus is solved: levels 0..=40 of all 15 families solve
-/// at 16 and 40 digits (measured with `attractors --levels 0..40` per family); above, the β
-/// loop's double-precision layout fails for some families (P2 from level 42: two branch points
-/// near ln a closer than 1e-12; F0 at levels 44 and 48). The series at a = ∞ is to extend it.
-pub const MAX_LEVEL: usize = 40;
+/// The highest level whose attractor modulus is solved: levels 0..=1000 of all 15 families solve
+/// at 100 digits with every digit confirmed, by the series at a = ∞ (measured with
+/// `attractors --levels 0..1000 --digits 100` per family, 0.9–1.7 s each; `examples/bench.rs`).
+/// Every attractor modulus lies outside the series radius (radius/a_n ≤ 0.232, at level 0 of
+/// P2: 3/12.97), so the paths are not needed for the solve.
+pub const MAX_LEVEL: usize = 1000;
 
 /// Checks that every level of `levels` is within [`MAX_LEVEL`].
 ///
@@ -104,6 +110,9 @@ pub struct Attractor {
     pub imaginary_part: f64,
     /// Working precision of the reported value.
     pub precision_bits: u32,
+    /// `Area(Δ°)·(log a_n)² − 4π²(n + ½)` ([`crate::curve::asymptotics::volume_gap`]): tends to
+    /// minus the constant of the perturbative volume, with exponentially small corrections.
+    pub volume_gap: f64,
 }
 
 /// The higher normal function ν(a) of one family as a function of the modulus: φ, and its
@@ -114,6 +123,8 @@ pub struct HigherNormalFunction {
     pub laurent: Laurent,
     pub boundary_points: usize,
     constant_terms: Vec<Integer>,
+    /// Every period by series at a = ∞ where radius/a ≤ [`SERIES_MAX_RATIO`] (None: paths only).
+    series: Option<SeriesMethod>,
 }
 
 impl HigherNormalFunction {
@@ -125,7 +136,27 @@ impl HigherNormalFunction {
             laurent: laurent.clone(),
             boundary_points,
             constant_terms: laurent.constant_terms(200)?,
+            series: None,
         })
+    }
+
+    /// Uses the series at a = ∞ wherever radius/a ≤ [`SERIES_MAX_RATIO`], with the β constants
+    /// matched for `bits` (the highest precision the solve will use).
+    ///
+    /// # Errors
+    /// [`AttractorError::Series`] when the operator or the matching fails.
+    pub fn with_series(mut self, bits: u32) -> Result<Self, AttractorError> {
+        let method = SeriesMethod::new(&self.laurent)?;
+        method.constants(bits)?;
+        self.series = Some(method);
+        Ok(self)
+    }
+
+    /// The series method if it applies at a (real, positive).
+    fn series_at(&self, a: &Float) -> Option<&SeriesMethod> {
+        self.series
+            .as_ref()
+            .filter(|m| m.operator.radius / a.to_f64() <= SERIES_MAX_RATIO)
     }
 
     fn ensure_terms(&mut self, n: usize) -> Result<(), AttractorError> {
@@ -167,23 +198,36 @@ impl HigherNormalFunction {
         bits: u32,
     ) -> Result<(Float, Float, Float, f64), AttractorError> {
         let ac = Complex::with_val(bits, (a, 0));
-        let alpha = self.alpha_series(&ac)?;
-        let p = periods::periods(&self.laurent, ac, alpha)?;
+        let (nu, nu_da, nu_daa) = match self.series_at(a) {
+            Some(m) => {
+                let p = m.periods(&ac)?.derived;
+                (p.nu, p.nu_da, p.nu_daa)
+            }
+            None => {
+                let alpha = self.alpha_series(&ac)?;
+                let p = periods::periods(&self.laurent, ac, alpha)?;
+                (p.nu, p.nu_da, p.nu_daa)
+            }
+        };
         // t = ln a: dν/dt = a ν_a, d²ν/dt² = a ν_a + a² ν_aa.
-        let slope = Float::with_val(bits, p.nu_da.real() * a);
+        let slope = Float::with_val(bits, nu_da.real() * a);
         let a2 = Float::with_val(bits, a.square_ref());
-        let curvature = Float::with_val(bits, p.nu_daa.real() * &a2) + &slope;
+        let curvature = Float::with_val(bits, nu_daa.real() * &a2) + &slope;
         Ok((
-            p.nu.real().clone(),
+            nu.real().clone(),
             slope,
             curvature,
-            p.nu.imag().to_f64().abs(),
+            nu.imag().to_f64().abs(),
         ))
     }
 
     /// `(Re ν(e^t), d Re ν/dt)` in double precision (the search phase).
     pub fn nu_f64(&mut self, t: f64) -> Result<(f64, f64), AttractorError> {
         let a = t.exp();
+        if self.series_at(&Float::with_val(64, a)).is_some() {
+            let (nu, slope, _, _) = self.nu(&Float::with_val(64, t).exp(), 64)?;
+            return Ok((nu.to_f64(), slope.to_f64()));
+        }
         let alpha = self
             .alpha_series(&Complex::with_val(64, a))?
             .map(|c| CyclePeriods {
@@ -363,8 +407,10 @@ pub fn solve_levels_at(
     bits: u32,
 ) -> Result<Vec<Attractor>, AttractorError> {
     check_reach(&levels)?;
-    let mut fam = HigherNormalFunction::new(laurent)?;
     let check_bits = confirming_bits(bits);
+    let mut fam = HigherNormalFunction::new(laurent)?.with_series(check_bits)?;
+    let points: Vec<[i64; 2]> = laurent.terms().iter().map(|t| t.0).collect();
+    let polar_area = asymptotics::polar_twice_area(&points).unwrap_or(0);
     // Phase 1 (sequential, double precision): each level's root seeds the next guess.
     let mut roots: Vec<(usize, i64, f64)> = Vec::new();
     let mut previous: Vec<(f64, f64)> = Vec::new(); // (k, t)
@@ -413,7 +459,9 @@ pub fn solve_levels_at(
             } else {
                 -rel.log10()
             };
+            let volume_gap = asymptotics::volume_gap(polar_area, &t_work, level).to_f64();
             Ok(Attractor {
+                volume_gap,
                 level,
                 nu: k,
                 log_modulus: t_work,

@@ -254,25 +254,25 @@ pub struct Periods<T> {
     pub nu_error: f64,
 }
 
-/// Ω, R of α and β, τ and ν at modulus a, by path integration at the precision of `a` (α from
-/// `alpha` if given, e.g. the series).
-///
-/// # Errors
-/// See [`PeriodsError`].
-pub fn periods<T: CNum>(
-    laurent: &Laurent,
-    a: T,
-    alpha: Option<CyclePeriods<T>>,
-) -> Result<Periods<T>, PeriodsError> {
-    let curve = Curve::new(laurent, a)?;
-    let singular = curve.singular_points()?;
-    let march = March::for_bits(curve.modulus().prec());
-    let alpha = match alpha {
-        Some(a) => a,
-        None => alpha_path(&curve, &singular, &march)?,
-    };
-    let (beta, beta_loop) = beta_path(&curve, &singular, &alpha.omega, &march)?;
-    let like = curve.modulus();
+/// τ, ν and the derivatives of ν from the periods of α and β (by any method).
+#[derive(Debug, Clone, serde::Serialize)]
+#[serde(bound(serialize = "T: CNum"))]
+pub struct NuParts<T> {
+    #[serde(serialize_with = "serial::complex")]
+    pub tau: T,
+    #[serde(serialize_with = "serial::complex")]
+    pub nu: T,
+    #[serde(serialize_with = "serial::complex")]
+    pub nu_da: T,
+    #[serde(serialize_with = "serial::complex")]
+    pub nu_daa: T,
+    pub nu_error: f64,
+}
+
+/// τ = Ω_β/Ω_α, ν = (R_β − τR_α)/(2πi)² and its first two a-derivatives (see [`Periods`]), with
+/// the error of ν propagated from the errors of the cycles.
+pub fn nu_parts<T: CNum>(alpha: &CyclePeriods<T>, beta: &CyclePeriods<T>) -> NuParts<T> {
+    let like = &alpha.omega;
     let two_pi_i = like.int_like(2) * like.pi_like() * like.i_like();
     let tau = beta.omega.clone() / alpha.omega.clone();
     let four_pi2 = two_pi_i.clone() * two_pi_i;
@@ -292,6 +292,40 @@ pub fn periods<T: CNum>(
             + tau.abs_f64() * alpha.error
             + alpha.regulator.abs_f64() * (beta.error + tau.abs_f64() * alpha.error)
                 / alpha.omega.abs_f64());
+    NuParts {
+        tau,
+        nu,
+        nu_da,
+        nu_daa,
+        nu_error,
+    }
+}
+
+/// Ω, R of α and β, τ and ν at modulus a, by path integration at the precision of `a` (α from
+/// `alpha` if given, e.g. the series).
+///
+/// # Errors
+/// See [`PeriodsError`].
+pub fn periods<T: CNum>(
+    laurent: &Laurent,
+    a: T,
+    alpha: Option<CyclePeriods<T>>,
+) -> Result<Periods<T>, PeriodsError> {
+    let curve = Curve::new(laurent, a)?;
+    let singular = curve.singular_points()?;
+    let march = March::for_bits(curve.modulus().prec());
+    let alpha = match alpha {
+        Some(a) => a,
+        None => alpha_path(&curve, &singular, &march)?,
+    };
+    let (beta, beta_loop) = beta_path(&curve, &singular, &alpha.omega, &march)?;
+    let NuParts {
+        tau,
+        nu,
+        nu_da,
+        nu_daa,
+        nu_error,
+    } = nu_parts(&alpha, &beta);
     Ok(Periods {
         alpha,
         beta,

@@ -14,7 +14,7 @@ use crate::checks::matching::Unmatched;
 use crate::checks::zeros::{TailZeros, Zeros};
 use crate::curve::attractor::Attractor;
 use crate::curve::laurent::Laurent;
-use crate::curve::periods::Comparison;
+use crate::curve::series_periods::{Agreement, TwoMethods};
 use crate::eigenfunction::poles::Pole;
 use crate::eigenfunction::profile::{PointNote, Profile};
 use crate::lattice::catalogue::Family;
@@ -320,12 +320,17 @@ impl SpectrumRecord {
 // ---------------------------------------------------------------------------------------------
 // periods
 
-/// The series values of Ω_α, R_α.
+/// Every period by the series at a = ∞.
 #[derive(Debug, Clone, Serialize)]
 pub struct SeriesRecord {
     pub omega_alpha: ComplexText,
     pub r_alpha: ComplexText,
-    pub error_estimate: String,
+    pub omega_beta: ComplexText,
+    pub r_beta: ComplexText,
+    pub tau: ComplexText,
+    pub nu: ComplexText,
+    pub nu_error_estimate: String,
+    pub terms: usize,
 }
 
 /// How the path periods were integrated.
@@ -354,20 +359,22 @@ pub struct PeriodsRecord {
     pub nu: ComplexText,
     pub nu_derivative: ComplexText,
     pub nu_error_estimate: String,
-    pub agreement_digits: Option<f64>,
+    /// Digits on which series and path agree, per value.
+    pub agreement_digits: Option<Agreement>,
     pub series: Option<SeriesRecord>,
     pub series_note: Option<String>,
     pub path: PathRecord,
 }
 
 /// The note of periods documents.
-pub const PERIODS_NOTE: &str = "numerical evidence: path integrals with a-priori error estimates, series with rigorous tail bounds";
+pub const PERIODS_NOTE: &str = "numerical evidence: path integrals with a-priori error estimates, Frobenius series at a = infinity with estimated tails and beta constants matched to path integration at one reference modulus";
 
 impl PeriodsRecord {
     /// The record of a comparison, `digits` digits per value.
-    pub fn new(family: &str, modulus: &rug::Float, c: &Comparison, digits: u32) -> Self {
+    pub fn new(family: &str, modulus: &rug::Float, c: &TwoMethods, digits: u32) -> Self {
         let p = &c.path;
         let cj = |z: &rug::Complex| ComplexText::new(z, digits);
+        let floor = |d: f64| (d * 10.0).floor() / 10.0;
         PeriodsRecord {
             family: family.to_string(),
             modulus: modulus.clone(),
@@ -379,11 +386,23 @@ impl PeriodsRecord {
             nu: cj(&p.nu),
             nu_derivative: cj(&p.nu_da),
             nu_error_estimate: sci(p.nu_error),
-            agreement_digits: c.agreement_digits.map(|d| (d * 10.0).floor() / 10.0),
+            agreement_digits: c.agreement.map(|a| Agreement {
+                omega_alpha: floor(a.omega_alpha),
+                r_alpha: floor(a.r_alpha),
+                omega_beta: floor(a.omega_beta),
+                r_beta: floor(a.r_beta),
+                tau: floor(a.tau),
+                nu: floor(a.nu),
+            }),
             series: c.series.as_ref().map(|s| SeriesRecord {
-                omega_alpha: cj(&s.omega),
-                r_alpha: cj(&s.regulator),
-                error_estimate: sci(s.error),
+                omega_alpha: cj(&s.alpha.omega),
+                r_alpha: cj(&s.alpha.regulator),
+                omega_beta: cj(&s.beta.omega),
+                r_beta: cj(&s.beta.regulator),
+                tau: cj(&s.derived.tau),
+                nu: cj(&s.derived.nu),
+                nu_error_estimate: sci(s.derived.nu_error),
+                terms: s.terms,
             }),
             series_note: c.series_note.clone(),
             path: PathRecord {
@@ -411,6 +430,9 @@ pub struct AttractorRecord {
     pub digits: u32,
     pub residual: String,
     pub imaginary_part_of_nu: String,
+    /// Area(Δ°)·(ln a_n)² − 4π²(n + 1/2): minus the constant of the perturbative volume, up to
+    /// exponentially small terms.
+    pub volume_gap: String,
 }
 
 impl From<&Attractor> for AttractorRecord {
@@ -423,6 +445,7 @@ impl From<&Attractor> for AttractorRecord {
             digits: a.digits,
             residual: sci(a.residual),
             imaginary_part_of_nu: sci(a.imaginary_part),
+            volume_gap: format!("{:.15}", a.volume_gap),
         }
     }
 }

@@ -5,7 +5,7 @@ use crate::checks::level::Check;
 use crate::checks::zeros::TailZeros;
 use crate::curve::attractor::Attractor;
 use crate::curve::laurent::Laurent;
-use crate::curve::periods::Comparison;
+use crate::curve::series_periods::TwoMethods;
 use crate::lattice::catalogue::Family;
 use crate::operator::spectrum::Spectrum;
 use crate::output::decimal::{decimal, sci, sci_opt, supported_digits};
@@ -95,11 +95,11 @@ pub fn spectrum_table(family: &str, spectrum: &Spectrum, digits: u32, elapsed_s:
     out
 }
 
-/// `regwave periods` as a table.
+/// `regwave periods` as a table: every value by path and by series, with their agreement.
 pub fn periods_table(
     family: &str,
     a: &str,
-    c: &Comparison,
+    c: &TwoMethods,
     digits: u32,
     bits: u32,
     elapsed_s: f64,
@@ -118,35 +118,55 @@ pub fn periods_table(
         )
     };
     let mut out = format!("family {family}, modulus a = {a}: periods of phi + a = 0 ({bits} bits, {elapsed_s:.2} s)\n\n");
-    let rows = [
-        ("Omega_alpha (path)", z(&p.alpha.omega)),
-        ("R_alpha (path)", z(&p.alpha.regulator)),
-        ("Omega_beta (path)", z(&p.beta.omega)),
-        ("R_beta (path)", z(&p.beta.regulator)),
-        ("tau", z(&p.tau)),
-        ("nu", z(&p.nu)),
+    let path_rows = [
+        ("Omega_alpha", &p.alpha.omega),
+        ("R_alpha", &p.alpha.regulator),
+        ("Omega_beta", &p.beta.omega),
+        ("R_beta", &p.beta.regulator),
+        ("tau", &p.tau),
+        ("nu", &p.nu),
     ];
-    for (k, v) in rows {
-        out.push_str(&format!("  {k:<20} {v}\n"));
-    }
-    match (&c.series, c.agreement_digits) {
-        (Some(s), Some(d)) => {
+    match (&c.series, &c.agreement) {
+        (Some(s), Some(ag)) => {
+            let series = [
+                &s.alpha.omega,
+                &s.alpha.regulator,
+                &s.beta.omega,
+                &s.beta.regulator,
+                &s.derived.tau,
+                &s.derived.nu,
+            ];
+            let agree = [
+                ag.omega_alpha,
+                ag.r_alpha,
+                ag.omega_beta,
+                ag.r_beta,
+                ag.tau,
+                ag.nu,
+            ];
+            for (((name, path), series), d) in path_rows.iter().zip(series).zip(agree) {
+                out.push_str(&format!("  {name:<12} path    {}\n", z(path)));
+                out.push_str(&format!(
+                    "  {:<12} series  {}   (agree to {d:.1} digits)\n",
+                    "",
+                    z(series)
+                ));
+            }
             out.push_str(&format!(
-                "  {:<20} {}\n  {:<20} {}\n",
-                "Omega_alpha (series)",
-                z(&s.omega),
-                "R_alpha (series)",
-                z(&s.regulator)
-            ));
-            out.push_str(&format!(
-                "\nseries and path agree to {:.1} digits for Omega_alpha and R_alpha.\n",
-                d
+                "\nseries at a = infinity: {} terms; path and series agree to at least {:.1} digits.\n",
+                s.terms,
+                ag.worst()
             ));
         }
-        _ => out.push_str(&format!(
-            "\nno series: {}\n",
-            c.series_note.clone().unwrap_or_default()
-        )),
+        _ => {
+            for (name, path) in path_rows {
+                out.push_str(&format!("  {name:<12} path    {}\n", z(path)));
+            }
+            out.push_str(&format!(
+                "\nno series: {}\n",
+                c.series_note.clone().unwrap_or_default()
+            ));
+        }
     }
     out.push_str(&format!(
         "beta: loop around the branch points {:.4}{:+.4}i and {:.4}{:+.4}i{}\n",
@@ -166,22 +186,19 @@ pub fn periods_table(
 /// `regwave attractors` as a table.
 pub fn attractors_table(family: &str, list: &[Attractor], digits: u32, elapsed_s: f64) -> String {
     let mut out = format!("family {family}: attractor moduli (nu(a) integer, level n <-> nu = n + 1), {digits} digits, {elapsed_s:.2} s\n\n");
+    let width = (digits as usize + 8).max(12);
     out.push_str(&format!(
-        "{:>5} {:>4}  {:<width$}  {}\n",
-        "level",
-        "nu",
-        "a_n",
-        "ln a_n",
-        width = (digits as usize + 8).max(12)
+        "{:>5} {:>4}  {:<width$}  {:<width$}  {}\n",
+        "level", "nu", "a_n", "ln a_n", "volume gap"
     ));
     for a in list {
         out.push_str(&format!(
-            "{:>5} {:>4}  {:<width$}  {}\n",
+            "{:>5} {:>4}  {:<width$}  {:<width$}  {:.12}\n",
             a.level,
             a.nu,
             decimal(&a.modulus, a.digits.max(1)),
             decimal(&a.log_modulus, a.digits.max(1)),
-            width = (digits as usize + 8).max(12)
+            a.volume_gap,
         ));
     }
     let short: Vec<String> = list
@@ -195,7 +212,7 @@ pub fn attractors_table(family: &str, list: &[Attractor], digits: u32, elapsed_s
             short.join(", ")
         ));
     }
-    out.push_str("\nDigits shown are those confirmed by a second solve at higher precision (numerical evidence, not proofs).\n");
+    out.push_str("\nDigits shown are those confirmed by a second solve at higher precision (numerical evidence, not proofs).\nvolume gap: Area(polar polygon)*(ln a_n)^2 - 4 pi^2 (n + 1/2), tending to minus the constant of the perturbative volume.\n");
     out
 }
 

@@ -1,7 +1,7 @@
 //! `periods`: Ω and R over α and β, τ and ν at one modulus, by series and by path integration.
 
 use super::{CommandError, FamilyRequest, Outcome};
-use crate::curve::periods;
+use crate::curve::series_periods;
 use crate::input::numbers::parse_modulus;
 use crate::output::records::{pretty, Document, Inputs, PeriodsRecord, PERIODS_NOTE};
 use crate::output::tables::periods_table;
@@ -30,10 +30,6 @@ struct Options {
     digits: u32,
 }
 
-/// Constant terms for the series at a = ∞ (enough for every precision the command accepts at
-/// moduli above twice the series radius).
-const SERIES_TERMS: usize = 2000;
-
 /// The periods at the requested modulus.
 ///
 /// # Errors
@@ -44,9 +40,8 @@ pub fn periods(request: &PeriodsRequest) -> Result<Outcome, CommandError> {
     let bits = working_bits(request.digits as f64);
     let a = parse_modulus(&request.modulus, bits, &sel.laurent)?;
     let start = Instant::now();
-    let terms = sel.laurent.constant_terms(SERIES_TERMS)?;
     let ac = rug::Complex::with_val(bits, (&a, 0));
-    let cmp = periods::compare(&sel.laurent, &ac, &terms)?;
+    let cmp = series_periods::compare(&sel.laurent, &ac)?;
     let elapsed = start.elapsed().as_secs_f64();
     let inputs = Inputs {
         family: request.family.inputs(&sel),
