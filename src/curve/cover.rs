@@ -543,6 +543,21 @@ pub struct Singular<T> {
     pub kind: SingularKind,
 }
 
+/// `z − s` shifted by the multiple of 2πi that brings its imaginary part nearest to 0: the
+/// offset from the nearest 2πi translate of s, at the precision of z (exact however close the
+/// two points are, relative to their size).
+pub fn periodic_offset<T: CNum>(z: &T, s: &T) -> T {
+    let d = z.clone() - s.clone();
+    let k = (d.im_f64() / (2.0 * std::f64::consts::PI)).round();
+    if k == 0.0 {
+        d
+    } else {
+        let two_pi_i = d.int_like(2) * d.pi_like() * d.i_like();
+        let k = d.int_like(k as i64);
+        d - two_pi_i * k
+    }
+}
+
 /// Distance from z to the nearest point of `s + 2πiZ` (f64 is enough for step control).
 pub fn periodic_distance(z: [f64; 2], s: [f64; 2]) -> f64 {
     let two_pi = 2.0 * std::f64::consts::PI;

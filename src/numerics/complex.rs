@@ -46,6 +46,10 @@ pub trait CNum:
     fn conj(&self) -> Self;
     /// |z| rounded to f64.
     fn abs_f64(&self) -> f64;
+    /// |z| as a (real) value of this type: keeps magnitudes outside f64's range.
+    fn abs_like(&self) -> Self;
+    /// log₂|z| in f64 (−∞ at 0): compares magnitudes outside f64's range.
+    fn log2_abs(&self) -> f64;
     /// Re z rounded to f64.
     fn re_f64(&self) -> f64;
     /// Im z rounded to f64.
@@ -62,6 +66,9 @@ pub trait CNum:
     fn from_real(x: &Float, prec: u32) -> Self;
     /// z as an MPC value at its own precision (exact).
     fn to_complex(&self) -> Complex;
+    /// An MPC value as a value of this type at `prec` bits (rounded to `Complex64` in double
+    /// precision).
+    fn from_complex(z: &Complex, prec: u32) -> Self;
 }
 
 impl CNum for Complex64 {
@@ -98,6 +105,12 @@ impl CNum for Complex64 {
     fn abs_f64(&self) -> f64 {
         self.norm()
     }
+    fn abs_like(&self) -> Self {
+        Complex64::new(self.norm(), 0.0)
+    }
+    fn log2_abs(&self) -> f64 {
+        self.norm().log2()
+    }
     fn re_f64(&self) -> f64 {
         self.re
     }
@@ -113,6 +126,9 @@ impl CNum for Complex64 {
     }
     fn to_complex(&self) -> Complex {
         Complex::with_val(53, (self.re, self.im))
+    }
+    fn from_complex(z: &Complex, _prec: u32) -> Self {
+        Complex64::new(z.real().to_f64(), z.imag().to_f64())
     }
 }
 
@@ -176,6 +192,17 @@ impl CNum for Complex {
             Float::with_val(CNum::prec(self), self.abs_ref()).to_f64()
         }
     }
+    fn abs_like(&self) -> Self {
+        Complex::with_val(CNum::prec(self), self.abs_ref())
+    }
+    fn log2_abs(&self) -> f64 {
+        let a = Float::with_val(CNum::prec(self), self.abs_ref());
+        if a.is_zero() {
+            return f64::NEG_INFINITY;
+        }
+        let (m, e) = a.to_f64_exp();
+        m.log2() + e as f64
+    }
     fn re_f64(&self) -> f64 {
         self.real().to_f64()
     }
@@ -193,6 +220,9 @@ impl CNum for Complex {
     }
     fn to_complex(&self) -> Complex {
         self.clone()
+    }
+    fn from_complex(z: &Complex, prec: u32) -> Self {
+        Complex::with_val(prec, z)
     }
 }
 
