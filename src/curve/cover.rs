@@ -42,6 +42,7 @@ use crate::curve::laurent::{Laurent, StripParts, Univariate};
 use crate::numerics::complex::CNum;
 use crate::numerics::laurent_poly::LaurentPoly;
 use crate::numerics::roots::{polynomial_roots, RootsError};
+use crate::precision::MAX_LAYOUT_BITS;
 use thiserror::Error;
 
 /// Smallest ratio (distance to the other sheet's value / distance to the chosen one) at which a
@@ -402,7 +403,25 @@ impl<T: CNum> Curve<T> {
                 reason: "the discriminant has no zeros".into(),
             });
         }
-        Ok(polynomial_roots(&poly)?)
+        let first = match polynomial_roots(&poly) {
+            Ok(roots) => return Ok(roots),
+            Err(e) => e,
+        };
+        // Two branch points closer than the precision resolves form a near-double root that can
+        // stall the iteration: the roots of the same coefficients at more bits, rounded back.
+        let prec = self.modulus.prec();
+        let mut bits = 2 * prec.max(64);
+        while bits <= MAX_LAYOUT_BITS {
+            let raised: Vec<rug::Complex> = poly
+                .iter()
+                .map(|c| rug::Complex::with_val(bits, c.to_complex()))
+                .collect();
+            if let Ok(roots) = polynomial_roots(&raised) {
+                return Ok(roots.iter().map(|z| T::from_complex(z, prec)).collect());
+            }
+            bits *= 2;
+        }
+        Err(first.into())
     }
 
     /// Punctures: the zeros of A and C. For a tempered strip polynomial the rows m₂ = ±1 are a
