@@ -1,6 +1,6 @@
 //! Levels above the solver's cap (40) by path integration: the β loop laid out at the working
 //! precision around branch pairs closer than double precision resolves (P2: ln a ± 2i a^{−3/2};
-//! F0: ln(a ∓ 2)), moduli up to 1e300 for every family, and ψ at high levels.
+//! F0: ln(a ∓ 2)), and large moduli for every family.
 
 use regwave::curve::attractor::HigherNormalFunction;
 use regwave::curve::continuation::March;

@@ -19,7 +19,7 @@ pub const MAX_EXPONENT: u32 = 10_000;
 /// lie beyond the double-precision layout of the β cycle for some families (measured: P2 fails
 /// between 10^60 and 10^100, F0 at 10^155 where a² overflows a double); the series at a = ∞ will
 /// extend it.
-pub const MAX_MODULUS_LOG10: u32 = 300;
+pub const MAX_MODULUS_LOG10: u32 = 100;
 
 /// Checks the strict decimal syntax of the module doc and returns the trimmed text.
 ///
