@@ -134,6 +134,36 @@ pub fn confirming_bits(bits: u32) -> u32 {
 /// apart, far beyond the levels where the β loop's double-precision layout still works.
 pub const SEARCH_FALLBACK_BITS: u32 = 128;
 
+/// Bits of z a path may lose to two crowded branch points before the β loop is laid out and
+/// integrated at a raised precision ([`layout_bits`]): half the guard bits.
+pub const LAYOUT_FREE_LOSS_BITS: f64 = 16.0;
+
+/// The precision at which the β loop between branch points crowded by `crowding` bits
+/// (`log₂((1 + |z|)/gap)` of the closest pair, [`crate::curve::cycles::crowding_bits`]) is laid
+/// out and integrated for results at `bits`: a path threading the pair evaluates e^z with the
+/// absolute error |z|·2^−bits at a distance ≈ gap from the pair, i.e. it loses `crowding` bits
+/// there (measured: P2 level 42, gap 9.5e-13 at z ≈ 19.4, fails in double precision and agrees
+/// with a 2× precision re-run to the working precision at `bits` + crowding + 16). `bits`
+/// itself while the loss stays within [`LAYOUT_FREE_LOSS_BITS`].
+pub fn layout_bits(bits: u32, crowding: f64) -> u32 {
+    if crowding <= LAYOUT_FREE_LOSS_BITS {
+        bits
+    } else {
+        bits + (crowding + LAYOUT_FREE_LOSS_BITS).ceil() as u32
+    }
+}
+
+/// Whether the closest branch points found at `bits` are a real pair rather than a double root
+/// split by rounding: the root finder separates a near-double root by ≈ 2^{−bits/2} (relative)
+/// at most, so a crowding up to bits/2 − 8 is trusted, a larger one is recomputed at more bits.
+pub fn crowding_resolved(bits: u32, crowding: f64) -> bool {
+    crowding <= bits as f64 / 2.0 - 8.0
+}
+
+/// The largest precision the β loop's layout is raised to (beyond: the branch points are
+/// reported as too close): 2^−20,000 relative, far beyond any modulus the input accepts.
+pub const MAX_LAYOUT_BITS: u32 = 20_000;
+
 /// Bits at which the double-precision Gauss–Legendre rules are computed before rounding to f64:
 /// far more than the 53 they keep, so that every node and weight is correctly rounded.
 pub const DOUBLE_RULE_BITS: u32 = 128;

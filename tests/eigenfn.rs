@@ -256,7 +256,10 @@ fn shift_relation_on_independent_routes() {
         let defect = |a: f64, spine: Option<f64>| -> (f64, f64) {
             let eig = Eigenfunction::new(&l, Complex64::new(a, 0.0), spine, 0.3).unwrap();
             let sing = eig.curve().singular_points().unwrap();
-            let pair = cycles::beta_loop(eig.curve(), &sing).unwrap().branch_points;
+            let pair = cycles::beta_loop(eig.curve(), &sing)
+                .unwrap()
+                .0
+                .branch_points;
             let b0 = eig.sheet_branch_point;
             assert!(
                 pair.iter().any(|&b| same_point(b, b0)),

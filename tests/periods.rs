@@ -217,10 +217,13 @@ fn homologous_beta_loops_give_the_same_periods_at_64_128_and_256_bits() {
             let curve = Curve::new(&l, a).unwrap();
             let sing = curve.singular_points().unwrap();
             let march = March::for_bits(bits);
-            let rule = cycles::beta_loop(&curve, &sing).unwrap();
+            let (rule, polyline) = cycles::beta_loop(&curve, &sing).unwrap();
             let [b0, b1] = rule.branch_points;
-            let one = periods::loop_periods(&curve, &sing, &rule.polyline, &march).unwrap();
-            let narrow = cycles::stadium(b0, b1, 0.02);
+            let one = periods::loop_periods(&curve, &sing, &polyline, &march).unwrap();
+            let narrow: Vec<Complex> = cycles::stadium(b0, b1, 0.02)
+                .iter()
+                .map(|p| Complex::with_val(bits, (p[0], p[1])))
+                .collect();
             let two = periods::loop_periods(&curve, &sing, &narrow, &march).unwrap();
             // Same orientation and sheet up to a common sign.
             let sign = if rel(&one.omega, &two.omega) < SAME_SIGN {
@@ -260,6 +263,10 @@ fn loops_around_a_puncture_give_integer_multiples_of_two_pi_i_squared_at_64_128_
     for bits in LADDER_BITS {
         let curve = Curve::new(&l, Complex::with_val(bits, 50)).unwrap();
         let sing = curve.singular_points().unwrap();
+        let circle: Vec<Complex> = circle
+            .iter()
+            .map(|p| Complex::with_val(bits, (p[0], p[1])))
+            .collect();
         let p = periods::loop_periods(&curve, &sing, &circle, &March::for_bits(bits)).unwrap();
         let two_pi_i = Complex::with_val(bits, (0, Float::with_val(bits, Constant::Pi) * 2u32));
         let k = Complex::with_val(

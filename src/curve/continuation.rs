@@ -30,7 +30,7 @@
 //! `docs/MATHEMATICS.md` §6.
 
 use crate::curve::cover::{
-    periodic_distance, CoverError, Curve, Fiber, Point, SheetPoint, Singular, SEPARATION_RATIO,
+    periodic_offset, CoverError, Curve, Fiber, Point, SheetPoint, Singular, SEPARATION_RATIO,
 };
 use crate::numerics::complex::CNum;
 use crate::numerics::quadrature;
@@ -117,8 +117,6 @@ pub struct March {
     pub step_factor: f64,
     /// Largest step.
     pub max_step: f64,
-    /// Smallest distance to a singular point a path may come.
-    pub min_distance: f64,
     /// Also integrate `∫ z d log(C/A)` ([`PathIntegrals::twist`]); only the eigenfunction needs
     /// it, the periods do not (it costs two divisions per node).
     pub twist: bool,
@@ -138,7 +136,6 @@ impl March {
             digits,
             step_factor: STEP_FACTOR,
             max_step: MAX_STEP,
-            min_distance: 1e-30,
             twist: false,
         }
     }
@@ -174,15 +171,8 @@ pub fn continue_sheet<T: CNum>(
     path: &[T],
     march: &March,
 ) -> Result<(SheetPoint<T>, PathIntegrals<T>), CoverError> {
-    let sing: Vec<[f64; 2]> = singular
-        .iter()
-        .map(|s| [s.z.re_f64(), s.z.im_f64()])
-        .collect();
-    let dist = |z: &T| {
-        sing.iter()
-            .map(|s| periodic_distance([z.re_f64(), z.im_f64()], *s))
-            .fold(f64::INFINITY, f64::min)
-    };
+    let prec = start.z.prec();
+    let sing: Vec<T> = singular.iter().map(|s| s.z.clone()).collect();
     let mut rules: Vec<Option<Vec<(T, T)>>> = vec![None; march.nodes + 8];
     let mut here = start.point();
     // The sheet is carried by D = ±√Δ (its sign), not by y: the two values of D stay a factor
@@ -192,38 +182,41 @@ pub fn continue_sheet<T: CNum>(
     let mut half_log_slope = curve.fiber(&start.z).half_log_slope;
     let mut acc = PathIntegrals::zero(&start.z);
     let two = start.z.int_like(2);
-    let eps = unit_roundoff(start.z.prec());
+    let eps = unit_roundoff(prec);
+    // Below the working precision relative to |z| a step could not even move z.
+    let floor_log2 = -((prec.saturating_sub(16)) as f64);
     for target in path.iter().skip(1) {
         loop {
             let remaining = target.clone() - here.z.clone();
-            let rem = remaining.abs_f64();
-            if rem == 0.0 {
+            let rem_log2 = remaining.log2_abs();
+            if rem_log2 == f64::NEG_INFINITY {
                 break;
             }
-            let d = dist(&here.z);
-            // Below the working precision relative to |z| a step could not even move z.
-            let floor = march
-                .min_distance
-                .max(tolerance(start.z.prec(), 16) * (1.0 + here.z.abs_f64()));
-            if d < floor {
+            // The nearest singular point at the working precision (two branch points can be
+            // closer than f64 resolves relative to |z|, or than f64's range).
+            let offset = nearest_offset(&here.z, &sing);
+            let d_log2 = offset.as_ref().map_or(f64::INFINITY, |o| o.log2_abs());
+            if d_log2 - (1.0 + here.z.abs_f64()).log2() < floor_log2 {
                 return Err(CoverError::ThroughSingularPoint {
                     z: crate::numerics::complex::show(here.z.to_c64()),
-                    distance: d,
+                    distance: d_log2.exp2(),
                 });
             }
-            let h = (march.step_factor * d).min(march.max_step);
-            let end = if rem <= h * 1.0000001 {
+            let step_log2 = (march.step_factor.log2() + d_log2).min(march.max_step.log2());
+            let end = if step_log2 >= rem_log2 + 1e-7 * std::f64::consts::LOG2_E {
                 target.clone()
+            } else if step_log2 >= march.max_step.log2() {
+                let ratio = march.max_step / rem_log2.exp2();
+                here.z.clone() + remaining * T::from_f64s(ratio, 0.0, prec)
             } else {
-                here.z.clone() + remaining * T::from_f64s(h / rem, 0.0, start.z.prec())
+                // h/|remaining| at the working precision (it can leave f64's range).
+                let h = offset.expect("finite distance").abs_like()
+                    * T::from_f64s(march.step_factor, 0.0, prec);
+                here.z.clone() + remaining.clone() * (h / remaining.abs_like())
             };
             let half = (end.clone() - here.z.clone()) / two.clone();
             let mid = (end.clone() + here.z.clone()) / two.clone();
-            let rho = bernstein_parameter(
-                [mid.re_f64(), mid.im_f64()],
-                [half.re_f64(), half.im_f64()],
-                &sing,
-            );
+            let rho = bernstein_parameter(&mid, &half, &sing);
             let nodes =
                 ((march.digits * std::f64::consts::LN_10 / (2.0 * rho.ln())).ceil() as usize + 4)
                     .div_ceil(4)
@@ -297,24 +290,43 @@ pub fn continue_sheet<T: CNum>(
 
 /// The smallest Bernstein-ellipse parameter ρ of the singular points (and their 2πi
 /// translates) for the segment `mid ± half`: for a singularity at p, with w = (p − mid)/half,
-/// ρ = |w + √(w² − 1)| (the branch with modulus ≥ 1).
-fn bernstein_parameter(mid: [f64; 2], half: [f64; 2], singular: &[[f64; 2]]) -> f64 {
+/// ρ = |w + √(w² − 1)| (the branch with modulus ≥ 1). w is formed at the working precision, so
+/// that a singular point closer to the segment than f64 resolves relative to |z| still counts.
+fn bernstein_parameter<T: CNum>(mid: &T, half: &T, singular: &[T]) -> f64 {
     use num_complex::Complex64;
-    let m = Complex64::new(mid[0], mid[1]);
-    let h = Complex64::new(half[0], half[1]);
-    let two_pi = 2.0 * std::f64::consts::PI;
+    let two_pi_i = mid.int_like(2) * mid.pi_like() * mid.i_like();
     let mut best = f64::INFINITY;
     for s in singular {
-        let k0 = ((mid[1] - s[1]) / two_pi).round();
-        for dk in [-1.0, 0.0, 1.0] {
-            let p = Complex64::new(s[0], s[1] + (k0 + dk) * two_pi);
-            let w = (p - m) / h;
+        let o = periodic_offset(s, mid);
+        for p in [
+            o.clone() - two_pi_i.clone(),
+            o.clone(),
+            o + two_pi_i.clone(),
+        ] {
+            let w: Complex64 = (p / half.clone()).to_c64();
+            if !(w.re.is_finite() && w.im.is_finite()) {
+                continue;
+            }
             let r = (w * w - 1.0).sqrt();
             let rho = (w + r).norm().max((w - r).norm());
             best = best.min(rho);
         }
     }
     best.max(1.0 + 1e-12)
+}
+
+/// The offset z − s to the nearest singular point s (any 2πi translate), at the working
+/// precision; None without singular points.
+fn nearest_offset<T: CNum>(z: &T, singular: &[T]) -> Option<T> {
+    let mut best: Option<(T, f64)> = None;
+    for s in singular {
+        let o = periodic_offset(z, s);
+        let l = o.log2_abs();
+        if best.as_ref().is_none_or(|b| l < b.1) {
+            best = Some((o, l));
+        }
+    }
+    best.map(|b| b.0)
 }
 
 /// D at z continuing `d` from z_prev: predictor `d·(1 + w + w²/2)`, `w = (d log D/dz)·Δz`

@@ -42,6 +42,7 @@ use crate::curve::laurent::{Laurent, StripParts, Univariate};
 use crate::numerics::complex::CNum;
 use crate::numerics::laurent_poly::LaurentPoly;
 use crate::numerics::roots::{polynomial_roots, RootsError};
+use crate::precision::MAX_LAYOUT_BITS;
 use thiserror::Error;
 
 /// Smallest ratio (distance to the other sheet's value / distance to the chosen one) at which a
@@ -402,7 +403,25 @@ impl<T: CNum> Curve<T> {
                 reason: "the discriminant has no zeros".into(),
             });
         }
-        Ok(polynomial_roots(&poly)?)
+        let first = match polynomial_roots(&poly) {
+            Ok(roots) => return Ok(roots),
+            Err(e) => e,
+        };
+        // Two branch points closer than the precision resolves form a near-double root that can
+        // stall the iteration: the roots of the same coefficients at more bits, rounded back.
+        let prec = self.modulus.prec();
+        let mut bits = 2 * prec.max(64);
+        while bits <= MAX_LAYOUT_BITS {
+            let raised: Vec<rug::Complex> = poly
+                .iter()
+                .map(|c| rug::Complex::with_val(bits, c.to_complex()))
+                .collect();
+            if let Ok(roots) = polynomial_roots(&raised) {
+                return Ok(roots.iter().map(|z| T::from_complex(z, prec)).collect());
+            }
+            bits *= 2;
+        }
+        Err(first.into())
     }
 
     /// Punctures: the zeros of A and C. For a tempered strip polynomial the rows m₂ = ±1 are a
@@ -541,6 +560,21 @@ pub enum SingularKind {
 pub struct Singular<T> {
     pub z: T,
     pub kind: SingularKind,
+}
+
+/// `z − s` shifted by the multiple of 2πi that brings its imaginary part nearest to 0: the
+/// offset from the nearest 2πi translate of s, at the precision of z (exact however close the
+/// two points are, relative to their size).
+pub fn periodic_offset<T: CNum>(z: &T, s: &T) -> T {
+    let d = z.clone() - s.clone();
+    let k = (d.im_f64() / (2.0 * std::f64::consts::PI)).round();
+    if k == 0.0 {
+        d
+    } else {
+        let two_pi_i = d.int_like(2) * d.pi_like() * d.i_like();
+        let k = d.int_like(k as i64);
+        d - two_pi_i * k
+    }
 }
 
 /// Distance from z to the nearest point of `s + 2πiZ` (f64 is enough for step control).

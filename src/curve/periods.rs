@@ -28,11 +28,13 @@
 
 use crate::curve::continuation::{continue_along, March, PathIntegrals};
 use crate::curve::cover::{CoverError, Curve, Point, Singular};
-use crate::curve::cycles::{alpha_offset, beta_loop, BetaLoop, CycleError};
+use crate::curve::cycles::{alpha_offset, beta_loop, crowding_bits, BetaLoop, CycleError};
 use crate::curve::laurent::Laurent;
 use crate::numerics::complex::CNum;
 use crate::numerics::serial;
-use crate::precision::{digits_of, tolerance, SUM_ROUNDING_BITS};
+use crate::precision::{
+    crowding_resolved, digits_of, layout_bits, tolerance, MAX_LAYOUT_BITS, SUM_ROUNDING_BITS,
+};
 use rug::{Complex, Float, Integer};
 use thiserror::Error;
 
@@ -180,8 +182,8 @@ fn regulator_of<T: CNum>(ints: PathIntegrals<T>, start: &Point<T>) -> CyclePerio
     }
 }
 
-/// Ω and R over any closed polyline (z-values) on the cover, starting on the root of larger
-/// modulus at its first point.
+/// Ω and R over any closed polyline (z-values at the working precision) on the cover, starting
+/// on the root of larger modulus at its first point.
 ///
 /// # Errors
 /// [`PeriodsError::BetaNotClosed`] if the loop does not return to its sheet; see
@@ -189,20 +191,15 @@ fn regulator_of<T: CNum>(ints: PathIntegrals<T>, start: &Point<T>) -> CyclePerio
 pub fn loop_periods<T: CNum>(
     curve: &Curve<T>,
     singular: &[Singular<T>],
-    polyline: &[[f64; 2]],
+    path: &[T],
     march: &March,
 ) -> Result<CyclePeriods<T>, PeriodsError> {
-    let prec = curve.modulus().prec();
-    let path: Vec<T> = polyline
-        .iter()
-        .map(|p| T::from_f64s(p[0], p[1], prec))
-        .collect();
     let [y0, _] = curve.roots(&path[0]);
     let start = Point {
         z: path[0].clone(),
         y: y0,
     };
-    let (end, ints) = continue_along(curve, singular, &start, &path, march)?;
+    let (end, ints) = continue_along(curve, singular, &start, path, march)?;
     let closure = (end.y.clone() - start.y.clone()).abs_f64() / start.y.abs_f64();
     if closure > 1e-6 {
         return Err(PeriodsError::BetaNotClosed);
@@ -210,7 +207,8 @@ pub fn loop_periods<T: CNum>(
     Ok(regulator_of(ints, &start))
 }
 
-/// Ω_β and R_β on the loop of [`beta_loop`], oriented so that Im(Ω_β/Ω_α) > 0.
+/// Ω_β and R_β on the loop of [`beta_loop`], oriented so that Im(Ω_β/Ω_α) > 0, at the
+/// precision of the curve.
 ///
 /// # Errors
 /// [`PeriodsError::BetaNotClosed`], and see [`crate::curve::continuation::continue_along`].
@@ -220,8 +218,8 @@ pub fn beta_path<T: CNum>(
     omega_alpha: &T,
     march: &March,
 ) -> Result<(CyclePeriods<T>, BetaLoop), PeriodsError> {
-    let lp = beta_loop(curve, singular)?;
-    let mut p = loop_periods(curve, singular, &lp.polyline, march)?;
+    let (lp, polyline) = beta_loop(curve, singular)?;
+    let mut p = loop_periods(curve, singular, &polyline, march)?;
     let tau = p.omega.clone() / omega_alpha.clone();
     if tau.im_f64() < 0.0 {
         p.omega = -p.omega;
@@ -230,6 +228,94 @@ pub fn beta_path<T: CNum>(
         p.omega_daa = -p.omega_daa;
     }
     Ok((p, lp))
+}
+
+/// The curve of φ at modulus `a` and its singular points at the precision the β loop needs:
+/// that of `a` unless two branch points crowd the layout ([`crowding_bits`]), else
+/// [`layout_bits`] (the branch points recomputed at more bits until their crowding is a real
+/// one, [`crowding_resolved`]). Returns None when the precision of `a` suffices.
+///
+/// # Errors
+/// [`CycleError::BranchPointsTooClose`] beyond [`MAX_LAYOUT_BITS`]; see [`Curve::new`].
+pub fn layout_curve<T: CNum>(
+    laurent: &Laurent,
+    a: &T,
+    singular: &[Singular<T>],
+) -> Result<Option<(Curve<Complex>, Vec<Singular<Complex>>)>, PeriodsError> {
+    let bits = a.prec();
+    let crowding = crowding_bits(singular);
+    if layout_bits(bits, crowding) == bits && crowding_resolved(bits, crowding) {
+        return Ok(None);
+    }
+    let a = a.to_complex();
+    let at = |b: u32| -> Result<_, PeriodsError> {
+        let curve = Curve::new(laurent, Complex::with_val(b, &a))?;
+        let singular = curve.singular_points()?;
+        Ok((curve, singular))
+    };
+    let mut b = layout_bits(bits, crowding).max(2 * bits);
+    loop {
+        let (curve, singular) = at(b)?;
+        let crowding = crowding_bits(&singular);
+        let need = layout_bits(bits, crowding);
+        if crowding_resolved(b, crowding) && need <= b {
+            if need == b {
+                return Ok(Some((curve, singular)));
+            }
+            // The curve at `need` bits with the branch points found at b (at `need` itself the
+            // root finder would split the close pair by rounding again).
+            let rounded = singular
+                .into_iter()
+                .map(|s| Singular {
+                    z: Complex::with_val(need, &s.z),
+                    kind: s.kind,
+                })
+                .collect();
+            return Ok(Some((
+                Curve::new(laurent, Complex::with_val(need, &a))?,
+                rounded,
+            )));
+        }
+        b = need.max(2 * b);
+        if b > MAX_LAYOUT_BITS {
+            return Err(CycleError::BranchPointsTooClose {
+                near: a.real().to_f64(),
+                separation: (-crowding).exp2(),
+            }
+            .into());
+        }
+    }
+}
+
+/// [`beta_path`] at the precision the loop needs ([`layout_curve`]), rounded back to the
+/// precision of `curve`.
+///
+/// # Errors
+/// See [`beta_path`] and [`layout_curve`].
+pub fn beta_periods<T: CNum>(
+    laurent: &Laurent,
+    curve: &Curve<T>,
+    singular: &[Singular<T>],
+    omega_alpha: &T,
+    march: &March,
+) -> Result<(CyclePeriods<T>, BetaLoop), PeriodsError> {
+    let Some((raised, raised_singular)) = layout_curve(laurent, curve.modulus(), singular)? else {
+        return beta_path(curve, singular, omega_alpha, march);
+    };
+    let prec = curve.modulus().prec();
+    let (p, lp) = beta_path(&raised, &raised_singular, &omega_alpha.to_complex(), march)?;
+    let back = |z: &Complex| T::from_complex(z, prec);
+    Ok((
+        CyclePeriods {
+            omega: back(&p.omega),
+            regulator: back(&p.regulator),
+            omega_da: back(&p.omega_da),
+            omega_daa: back(&p.omega_daa),
+            steps: p.steps,
+            error: p.error,
+        },
+        lp,
+    ))
 }
 
 /// All periods at one modulus.
@@ -318,7 +404,7 @@ pub fn periods<T: CNum>(
         Some(a) => a,
         None => alpha_path(&curve, &singular, &march)?,
     };
-    let (beta, beta_loop) = beta_path(&curve, &singular, &alpha.omega, &march)?;
+    let (beta, beta_loop) = beta_periods(laurent, &curve, &singular, &alpha.omega, &march)?;
     let NuParts {
         tau,
         nu,

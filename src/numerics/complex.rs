@@ -48,6 +48,10 @@ pub trait CNum:
     fn abs_f64(&self) -> f64;
     /// log₁₀|z| in f64, also where |z| itself leaves f64's range (−∞ at 0, NaN for NaN).
     fn log10_abs(&self) -> f64;
+    /// |z| as a (real) value of this type: keeps magnitudes outside f64's range.
+    fn abs_like(&self) -> Self;
+    /// log₂|z| in f64 (−∞ at 0): compares magnitudes outside f64's range.
+    fn log2_abs(&self) -> f64;
     /// Re z rounded to f64.
     fn re_f64(&self) -> f64;
     /// Im z rounded to f64.
@@ -64,6 +68,9 @@ pub trait CNum:
     fn from_real(x: &Float, prec: u32) -> Self;
     /// z as an MPC value at its own precision (exact).
     fn to_complex(&self) -> Complex;
+    /// An MPC value as a value of this type at `prec` bits (rounded to `Complex64` in double
+    /// precision).
+    fn from_complex(z: &Complex, prec: u32) -> Self;
 }
 
 impl CNum for Complex64 {
@@ -103,6 +110,12 @@ impl CNum for Complex64 {
     fn log10_abs(&self) -> f64 {
         self.norm().log10()
     }
+    fn abs_like(&self) -> Self {
+        Complex64::new(self.norm(), 0.0)
+    }
+    fn log2_abs(&self) -> f64 {
+        self.norm().log2()
+    }
     fn re_f64(&self) -> f64 {
         self.re
     }
@@ -118,6 +131,9 @@ impl CNum for Complex64 {
     }
     fn to_complex(&self) -> Complex {
         Complex::with_val(53, (self.re, self.im))
+    }
+    fn from_complex(z: &Complex, _prec: u32) -> Self {
+        Complex64::new(z.real().to_f64(), z.imag().to_f64())
     }
 }
 
@@ -191,6 +207,17 @@ impl CNum for Complex {
                 .to_f64()
         }
     }
+    fn abs_like(&self) -> Self {
+        Complex::with_val(CNum::prec(self), self.abs_ref())
+    }
+    fn log2_abs(&self) -> f64 {
+        let a = Float::with_val(CNum::prec(self), self.abs_ref());
+        if a.is_zero() {
+            return f64::NEG_INFINITY;
+        }
+        let (m, e) = a.to_f64_exp();
+        m.log2() + e as f64
+    }
     fn re_f64(&self) -> f64 {
         self.real().to_f64()
     }
@@ -208,6 +235,9 @@ impl CNum for Complex {
     }
     fn to_complex(&self) -> Complex {
         self.clone()
+    }
+    fn from_complex(z: &Complex, prec: u32) -> Self {
+        Complex::with_val(prec, z)
     }
 }
 
