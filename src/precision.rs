@@ -356,10 +356,11 @@ pub const DOUBLE_RANGE: f64 = 140.0;
 /// Probed on level 0 of all 15 families at r = ±250 (`examples/reach_probe.rs`, against an
 /// independent 60-digit run): 14 hold their claimed digits at 16 requested digits (agreement
 /// 13.2–15.8 digits, each within one digit of its claim capped at the 16 of the double values
-/// compared) and at 40 digits; dP2*
-/// does not: its continuation stops at z ≈ 234.8 + πi (two roots not told apart) at every
-/// precision tried, and its grids to |r| = 230 are built. Its reach is not yet lowered.
-pub const REACH: f64 = 250.0;
+/// compared) and at 40 digits; dP2* does not: its continuation stops at z ≈ 234.8 + πi (two
+/// roots not told apart) at every precision tried. At r = ±230 all 15 families hold their
+/// claimed digits at 16 and 40 requested digits (`cargo run --release --example reach_probe 230`),
+/// so the reach is 230 for every family.
+pub const REACH: f64 = 230.0;
 
 /// How far a profile reaches at an end where the roots merge, when its points may be computed
 /// at up to `budget` digits and must hold `wanted`: the loss |r|/(2 ln 10)

@@ -412,11 +412,11 @@ fn table() -> Vec<Case> {
         ("0:1_0:3", "inside a number"),
         ("1:1.0000000000000001:3", "too fine"),
         ("0:1e99999:3", "the exponent is beyond"),
-        // Beyond the reach of the profile (|r| <= 250, `eigenfunction::profile::reach`): refused
+        // Beyond the reach of the profile (|r| <= 230, `eigenfunction::profile::reach`): refused
         // after the modulus is solved and before any sampling (measured 0.07 s each for F0).
-        ("-400:400:9", "beyond the reach |r| <= 250"),
-        ("250.001:260:2", "beyond the reach |r| <= 250"),
-        ("-1e6:-300:3", "beyond the reach |r| <= 250"),
+        ("-400:400:9", "beyond the reach |r| <= 230"),
+        ("230.001:260:2", "beyond the reach |r| <= 230"),
+        ("-1e6:-300:3", "beyond the reach |r| <= 230"),
     ] {
         t.extend(grid(text, reason));
     }
