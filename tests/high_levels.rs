@@ -80,8 +80,8 @@ fn p2_and_f0_above_level_forty_by_path() {
 #[test]
 fn series_and_path_agree_for_every_family_at_large_moduli() {
     // Ω_α, R_α by the series at a = ∞ against path integration (the β loop laid out around the
-    // close branch pairs on the way), and ν real, at a = 1e40, 30 digits (1e100 and 1e300 pass
-    // too but take 2-13 s per family: reported, not tested).
+    // close branch pairs on the way), and ν real, at a = 1e40, 30 digits (measured also at 1e100
+    // for 11 families, 1.4–13 s each; larger moduli are outside the input domain, 1e100).
     let bits = working_bits(30.0);
     for fam in regwave::lattice::catalogue::all()
         .iter()
@@ -136,4 +136,57 @@ fn negative_companions_perturbed_modulus_and_unraised_layout() {
     // The same loop with the raise succeeds.
     let raised = periods::beta_periods(&l, &curve, &sing, &alpha.omega, &March::for_bits(53));
     assert!(raised.is_ok(), "{raised:?}");
+}
+
+#[test]
+fn eigenfunctions_at_the_highest_built_level_at_40_digits() {
+    // ψ at level 20 (the highest built, `profile::MAX_LEVEL`; a ≈ 7e5 for P2, 1.7e6 for F0): the
+    // attractor modulus by the series at a = ∞, the eigenfunction by path integration. The
+    // eigen-equation residual from three independently integrated lines is ≤ 1e-30, and the
+    // larger of route dependence and Cauchy defect — the negative controls, the residual is none
+    // (docs/MATHEMATICS.md §7) — is near rounding level at the attractor modulus (measured 1e-23
+    // for P2, whose Cauchy defect grows with the level) and many orders larger at a(1 + 1e-10).
+    // Above level 20 eigenfunctions are refused: for P2 at level 30 the route dependence is
+    // 5e-4 and the Cauchy defect 2 while the residual stays tiny (examples/route_probe.rs).
+    use regwave::checks::single_valuedness::{cauchy_defect, route_dependence};
+    use regwave::eigenfunction::construction::Eigenfunction;
+    use regwave::eigenfunction::profile::{build, ProfileError, ProfileOptions, Target, BASE_RE};
+    use regwave::input::grid::Grid;
+    let options = ProfileOptions {
+        grid: Grid::parse("-6:6:13").unwrap(),
+        strip: true,
+        digits: 40,
+        allow_non_attractor: false,
+    };
+    for id in ["P2", "F0"] {
+        let l = regwave::family(id).unwrap();
+        let p = build(&l, &Target::Level(20), &options).unwrap();
+        let res = p.residual.as_ref().unwrap();
+        assert_eq!(res.points_without_value, 0, "{id}");
+        let max = res.max.unwrap();
+        assert!(max <= 1e-30, "{id}: residual {max:e}");
+        let bits = p.modulus.prec();
+        let route = |a: Float| {
+            let eig =
+                Eigenfunction::new(&l, Complex::with_val(bits, (&a, 0)), None, BASE_RE).unwrap();
+            route_dependence(&l, &eig)
+                .unwrap()
+                .max(cauchy_defect(&eig).unwrap())
+        };
+        let at = route(p.modulus.clone());
+        let shift = Float::with_val(bits, &p.modulus * Float::with_val(bits, 1e-10));
+        let off = route(Float::with_val(bits, &p.modulus + &shift));
+        assert!(
+            at < 1e-28,
+            "{id}: route dependence {at:e} at the attractor modulus"
+        );
+        assert!(
+            off > 1e6 * at.max(1e-40),
+            "{id}: off the attractor {off:e} vs {at:e}"
+        );
+        assert!(matches!(
+            build(&l, &Target::Level(21), &options),
+            Err(ProfileError::LevelBeyondReach { level: 21, .. })
+        ));
+    }
 }

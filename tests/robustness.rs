@@ -290,29 +290,45 @@ fn table() -> Vec<Case> {
         t.extend(levels(text, reason));
     }
     // Levels beyond the reach of the attractor solve, and a spectrum beyond memory.
-    for cmd in ["attractors", "audit"] {
-        for text in ["1001", "0..1001", "9999..10000"] {
+    for text in ["1001", "0..1001", "9999..10000"] {
+        t.push(case(
+            &["attractors", "--family", "F0", "--levels", text],
+            2,
+            "beyond the levels regwave solves",
+        ));
+    }
+    // Eigenfunctions: levels up to 20 (`eigenfunction::profile::MAX_LEVEL`).
+    for text in ["21", "0..30", "9999..10000"] {
+        t.push(case(
+            &[
+                "audit",
+                "--family",
+                "F0",
+                "--levels",
+                text,
+                "--out",
+                "/tmp/regwave-robustness-never",
+            ],
+            2,
+            "beyond the levels whose eigenfunctions",
+        ));
+    }
+    for level in ["21", "100", "1001", "18446744073709551615"] {
+        for cmd in ["check", "build"] {
             t.push(case(
                 &[
                     cmd,
                     "--family",
-                    "F0",
-                    "--levels",
-                    text,
+                    "P2",
+                    "--level",
+                    level,
                     "--out",
                     "/tmp/regwave-robustness-never",
-                ][..if cmd == "audit" { 7 } else { 5 }],
+                ][..if cmd == "build" { 7 } else { 5 }],
                 2,
-                "beyond the levels regwave solves",
+                "beyond the levels whose eigenfunctions",
             ));
         }
-    }
-    for level in ["1001", "10000", "18446744073709551615"] {
-        t.push(case(
-            &["check", "--family", "P2", "--level", level],
-            2,
-            "beyond the levels regwave solves",
-        ));
     }
     for args in [
         &["--levels", "0..10000"][..],

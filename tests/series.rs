@@ -9,6 +9,7 @@ use regwave::curve::laurent::Laurent;
 use regwave::curve::picard_fuchs::{PicardFuchs, PicardFuchsError};
 use regwave::curve::series_periods::{compare, digits_agreeing, SeriesMethod};
 use regwave::lattice::catalogue;
+use regwave::numerics::pslq::{integer_relation, Relation};
 use regwave::precision::working_bits;
 use rug::{Complex, Float};
 
@@ -169,6 +170,88 @@ fn matched_constants_at_110_digits() {
             k.b.real().to_string_radix(10, Some(110)),
             k.c.real().to_string_radix(10, Some(110))
         );
+    }
+}
+
+/// The closed forms of the matching constants, identified by integer relations (PSLQ, own
+/// implementation in `numerics::pslq`) at 110 digits: C = (b − 6)·π²/3 with b the boundary
+/// points, and B a half-integer (values below, as found).
+#[test]
+fn matched_constants_have_closed_forms() {
+    let bits = working_bits(110.0);
+    let pi2 = Float::with_val(bits, rug::float::Constant::Pi).square();
+    let one = Float::with_val(bits, 1u32);
+    let log2 = Float::with_val(bits, 2u32).ln();
+    let log3 = Float::with_val(bits, 3u32).ln();
+    let twice_b: [(&str, i64); 15] = [
+        ("P2", 1),
+        ("F0", 0),
+        ("F1", -2),
+        ("F2", 0),
+        ("Q5", -1),
+        ("dP2", 1),
+        ("T6", -2),
+        ("Q6", -2),
+        ("Pe6", 0),
+        ("dP3", 0),
+        ("Q7", -1),
+        ("dP2*", 1),
+        ("F0*", 0),
+        ("F1*", 0),
+        ("F2*", 0),
+    ];
+    for (id, l) in families() {
+        let k = SeriesMethod::new(&l).unwrap().constants(bits).unwrap();
+        let (b_const, c_const) = (k.b.real().clone(), k.c.real().clone());
+        let boundary = l.terms().len() as i64;
+        // C against π², 1, log 2, log 3: the only relation is 3C = (b − 6)π².
+        let c_basis = [
+            c_const.clone(),
+            pi2.clone(),
+            one.clone(),
+            log2.clone(),
+            log3.clone(),
+        ];
+        match integer_relation(&c_basis, 1e6, 40) {
+            Relation::Found { coefficients, .. } => {
+                let m: Vec<i64> = coefficients.iter().map(|c| c.to_i64().unwrap()).collect();
+                // 3·C − (b − 6)·π² = 0, made primitive (first entry positive).
+                let k = 6 - boundary;
+                let g = if k % 3 == 0 { 3 } else { 1 };
+                let expected = vec![3 / g, k / g, 0, 0, 0];
+                assert_eq!(m, expected, "{id}: C = {c_const}");
+            }
+            other => panic!("{id}: no relation for C: {other:?}"),
+        }
+        // B against 1, log 2, log 3: 2B is the integer of the table.
+        let expected_2b = twice_b.iter().find(|t| t.0 == id).unwrap().1;
+        if expected_2b == 0 {
+            assert!(b_const.clone().abs() < 1e-100, "{id}: B = {b_const}");
+        } else {
+            let b_basis = [b_const.clone(), one.clone(), log2.clone(), log3.clone()];
+            match integer_relation(&b_basis, 1e6, 40) {
+                Relation::Found { coefficients, .. } => {
+                    let m: Vec<i64> = coefficients.iter().map(|c| c.to_i64().unwrap()).collect();
+                    // 2·B − (2B)·1 = 0, made primitive.
+                    let g: i64 = if expected_2b % 2 == 0 { 2 } else { 1 };
+                    assert_eq!(
+                        m,
+                        vec![2 / g, -expected_2b / g, 0, 0],
+                        "{id}: B = {b_const}"
+                    );
+                }
+                other => panic!("{id}: no relation for B: {other:?}"),
+            }
+        }
+    }
+    // The negative companion: C perturbed by 1e-60 has no relation of norm below 1e6 with the
+    // same basis.
+    let (_, f0) = families().into_iter().find(|f| f.0 == "F0").unwrap();
+    let k = SeriesMethod::new(&f0).unwrap().constants(bits).unwrap();
+    let wrong = Float::with_val(bits, k.c.real()) + Float::with_val(bits, 1e-60);
+    match integer_relation(&[wrong, pi2, one, log2, log3], 1e6, 40) {
+        Relation::None { norm_bound } => assert!(norm_bound > 1e6),
+        other => panic!("a perturbed constant was identified: {other:?}"),
     }
 }
 

@@ -15,9 +15,11 @@
 //!   where the periods are integrated ([`crate::curve::periods::beta_path`]).
 //!
 //! # Accuracy
-//! The layout is in double precision (the periods are integrated at the working precision along
-//! it); two branch points closer than about 5e-14 relative cannot be separated by it
-//! ([`CycleError::BranchPointsTooClose`]: P2 beyond level 40).
+//! The layout is computed at the precision of the curve (every coordinate relative to the inner
+//! branch point), and [`crate::curve::periods`] raises that precision by the crowding of the
+//! closest branch pair (`precision::layout_bits`), so close pairs (P2 at level 100: 4a^{−3/2}
+//! ≈ 1e-19 apart) are resolved; only a pair closer than the largest layout precision allows is
+//! refused ([`CycleError::BranchPointsTooClose`]).
 //!
 //! # Errors
 //! [`CycleError`].
@@ -37,15 +39,15 @@ pub enum CycleError {
     #[error(transparent)]
     Cover(#[from] CoverError),
     /// The branch points do not split into two inside and two outside the α circle.
-    #[error("no β cycle: the branch points do not straddle the α circle |x| = e^{z_alpha} (found {inside} inside, {outside} outside); this modulus is beyond what the double-precision layout of the cycles resolves, i.e. beyond regwave's current range")]
+    #[error("no β cycle: the branch points do not straddle the α circle |x| = e^{z_alpha} (found {inside} inside, {outside} outside); the cycles cannot be laid out at this modulus")]
     NoBetaCycle {
         z_alpha: f64,
         inside: usize,
         outside: usize,
     },
     /// Two branch points are closer than the double-precision layout of the β loop resolves
-    /// (a conjugate pair at ln a ± iε, ε ≈ 2a^{−3/2} for P2: the limit is near level 40).
-    #[error("branch points near z = {near:.6} are {separation:.1e} apart, below what the double-precision layout of the beta loop resolves (about 5e-14 relative); this modulus is beyond regwave's current range")]
+    /// (a conjugate pair at ln a ± iε, ε ≈ 2a^{−3/2} for P2), even at the largest layout precision.
+    #[error("branch points near z = {near:.6} are {separation:.1e} apart, closer than the largest layout precision of the beta loop resolves; this modulus is beyond regwave's range")]
     BranchPointsTooClose { near: f64, separation: f64 },
 }
 

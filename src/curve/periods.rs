@@ -53,7 +53,7 @@ pub enum PeriodsError {
     #[error("the series needs {needed} constant terms, only {available} were given")]
     TooFewTerms { needed: usize, available: usize },
     /// The β loop did not close on the cover.
-    #[error("the β loop did not return to its starting sheet (at very high levels, e.g. P2 beyond level 40, two branch points near ln a come closer than the loop's double-precision layout resolves)")]
+    #[error("the β loop did not return to its starting sheet (two branch points crowd closer than the loop's layout resolves at this modulus)")]
     BetaNotClosed,
 }
 

@@ -169,7 +169,7 @@ pub fn audit(request: &AuditRequest, progress: Observer<'_>) -> Result<Outcome, 
     check_digits(request.digits)?;
     let sel = request.family.resolve()?;
     let levels = parse_levels(&request.levels)?;
-    crate::curve::attractor::check_reach(&levels)?;
+    crate::eigenfunction::profile::check_level_reach(&levels)?;
     let grid = Grid::parse(&request.grid)?;
     let id = sel.family.id;
     let out = request

@@ -250,7 +250,7 @@ impl TargetRequest {
     pub fn target(&self, sel: &Selection, digits: u32) -> Result<Target, CommandError> {
         match (self.level, &self.modulus) {
             (Some(n), _) => {
-                crate::curve::attractor::check_reach(&(n..=n))?;
+                crate::eigenfunction::profile::check_level_reach(&(n..=n))?;
                 Ok(Target::Level(n))
             }
             (None, Some(text)) => {
