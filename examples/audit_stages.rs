@@ -35,7 +35,7 @@ fn main() {
             lv.profile
                 .residual
                 .as_ref()
-                .map(|r| r.max)
+                .and_then(|r| r.max)
                 .unwrap_or(f64::NAN),
             lv.profile.precision_bits,
             lv.zeros.count,

@@ -33,7 +33,7 @@ fn main() {
         "{id} level {level}: bits {} lambda {:.3e} max {:.2e}",
         p.precision_bits,
         regwave::numerics::complex::CNum::abs_f64(&p.lambda),
-        r.max
+        r.max.unwrap_or(f64::NAN)
     );
     for (x, v) in worst.iter().take(8) {
         println!("  r = {x:6.2}  residual {v:.2e}");

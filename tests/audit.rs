@@ -38,7 +38,11 @@ fn run(id: &str, digits: u32) -> Audit {
 fn residual_max(a: &Audit) -> f64 {
     a.levels
         .iter()
-        .map(|l| l.profile.residual.as_ref().unwrap().max)
+        .map(|l| {
+            let r = l.profile.residual.as_ref().unwrap();
+            assert_eq!(r.points_without_value, 0, "level {}", l.level);
+            r.max.expect("formed on the grid")
+        })
         .fold(0.0, f64::max)
 }
 
