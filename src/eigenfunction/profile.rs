@@ -284,6 +284,10 @@ pub struct PointDigits {
     /// relative to its own size did not grow when the precision was raised); the first value is
     /// kept, held absolutely, with its digits relative to the line's peak.
     pub zeros: Vec<PointNote>,
+    /// Points whose recomputation at a raised precision gave no usable value (no finite digits):
+    /// the first value is kept with the digits it holds (fewer than `wanted`, stated here, and
+    /// relative to the line's peak) rather than dropped.
+    pub kept_short: Vec<PointNote>,
 }
 
 /// A grid point of one line of a profile that was recomputed or dropped.
@@ -632,6 +636,37 @@ fn settle_points(
             .map(|d| d.unwrap_or(f64::NEG_INFINITY))
             .fold(f64::INFINITY, f64::min);
         let zero = noise && !lines.is_empty() && held >= wanted;
+        // The recomputation gave no finite digits on any line (e.g. the isolated point routed
+        // differently) while the first value held some: keep the first value, stated with the
+        // digits it holds, instead of leaving the point without a value.
+        let unusable = (0..lines_n).all(|l| {
+            p.point_digits.relative[l][k].is_none_or(|d| !d.is_finite())
+        });
+        let first_held = lines
+            .iter()
+            .filter_map(|&l| first_digits[l][k])
+            .fold(f64::INFINITY, f64::min);
+        if !zero && unusable && !lines.is_empty() && first_held.is_finite() && first_held >= 1.0 {
+            for (l, v) in kept.into_iter().enumerate().take(lines_n) {
+                set_value(p, l, k, v);
+                p.point_digits.relative[l][k] = first_digits[l][k];
+            }
+            if let (Some(res), Some(old)) = (p.residual.as_mut(), &first_residual) {
+                let absolute = old.per_point[k].map(|v| v * old.scale);
+                res.replace(&[k], &[absolute]);
+            }
+            p.point_digits.kept_short.push(PointNote {
+                line: 0,
+                index: k,
+                r: p.grid[k],
+                digits: first_held,
+                digits_relative_to_peak: None,
+                reason: format!(
+                    "computed again at {work:.0} working digits without a usable value; the first value is kept, holding {first_held:.1} digits of its own (the fewest over its lines)"
+                ),
+            });
+            return false;
+        }
         if zero {
             zeros.push((k, before, after, held));
             for (l, v) in kept.into_iter().enumerate().take(lines_n) {
@@ -1015,6 +1050,7 @@ fn sample<T: CNum + Send + Sync>(
         raised_bits: None,
         dropped: Vec::new(),
         zeros: Vec::new(),
+        kept_short: Vec::new(),
     };
     Ok(Profile {
         level: resolved.level,

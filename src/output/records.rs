@@ -767,6 +767,9 @@ pub struct PointDigitsRecord {
     /// Zeros of psi: values that stayed rounding noise when the precision was raised, kept with
     /// their digits relative to the line's peak (not counted in the minima above).
     pub zeros: Vec<PointNote>,
+    /// Points whose recomputation gave no usable value: the first value is kept with the
+    /// (fewer than wanted) digits it holds, stated here (counted in the minima above).
+    pub kept_short: Vec<PointNote>,
 }
 
 impl PointDigitsRecord {
@@ -778,7 +781,7 @@ impl PointDigitsRecord {
             .flatten()
             .reduce(f64::min);
         PointDigitsRecord {
-            rule: "each value holds the working digits less the cancellation in chi - chi o iota at its point and the error of the exponent integral (log10(1 + |e|/2pi)); values with fewer than `wanted` digits are computed again at a raised precision (within a budget of 100 digits above the working digits), else written as nan and listed here; a value whose own digits do not grow when the precision is raised is a zero of psi, kept with its digits relative to the line's peak",
+            rule: "each value holds the working digits less the cancellation in chi - chi o iota at its point and the error of the exponent integral (log10(1 + |e|/2pi)); values with fewer than `wanted` digits are computed again at a raised precision (within a budget of 100 digits above the working digits), else written as nan and listed here; a value whose own digits do not grow when the precision is raised is a zero of psi, kept with its digits relative to the line's peak; a value whose recomputation gave no usable value keeps its first value with the digits it holds (kept_short)",
             wanted: d.wanted,
             relative_min_on_r: d.min_relative(0),
             relative_min_on_strip_lines: strip,
@@ -786,6 +789,7 @@ impl PointDigitsRecord {
             raised_precision_bits: d.raised_bits,
             without_value: d.dropped.clone(),
             zeros: d.zeros.clone(),
+            kept_short: d.kept_short.clone(),
         }
     }
 }
