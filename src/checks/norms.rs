@@ -35,7 +35,7 @@ pub struct GridNorm {
     pub excluded_mass_bound: f64,
 }
 
-/// The mass of the written values on a uniform grid ([`simpson_mass`]) with the points without
+/// The mass of the written values on a uniform grid (Simpson's rule) with the points without
 /// a value counted and their share bounded.
 ///
 /// # Errors

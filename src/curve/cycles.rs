@@ -118,7 +118,7 @@ fn order_by_real<T: CNum>(p: &T, q: &T) -> Ordering {
 /// precision.
 ///
 /// The loop is a tube around the segment [b_in, b_out] (capped by half circles at both ends)
-/// whose half-width over a point q of the segment is [`TUBE_FRACTION`] of the distance from q to
+/// whose half-width over a point q of the segment is `TUBE_FRACTION` of the distance from q to
 /// the nearest singular point not to be enclosed, at most min(¼ length, 1). Its vertices step
 /// along the segment by the local width, so next to a close pair (P2: ln a ± 2i a^{−3/2}) the
 /// loop narrows geometrically down to the pair's scale; every coordinate is formed at the

@@ -13,12 +13,12 @@
 //!
 //! of order d in θ and degree r in t: the coefficient of t^{m} of `L Σ w_n tⁿ` is
 //! `Σ_j q_j(m − r) w_{m−r+j}` (w at negative indices zero). It vanishes for m ≥ r by the
-//! recurrence; for m < r (the boundary terms) it is checked exactly ([`BoundaryTermsNonzero`]
+//! recurrence; for m < r (the boundary terms) it is checked exactly ([`PicardFuchsError::BoundaryTermsNonzero`]
 //! otherwise: a recurrence guessed for n ≥ 0 need not hold at negative n; it does for all 15
 //! families). So `L f₀ = 0` exactly.
 //!
 //! **Indicial polynomial** at t = 0: `q_r(s − r)`. Maximal unipotent monodromy needs a double
-//! root at s = 0 ([`NotMaximallyUnipotent`] otherwise). **Frobenius basis**: with
+//! root at s = 0 ([`PicardFuchsError::NotMaximallyUnipotent`] otherwise). **Frobenius basis**: with
 //! `w_n(ε) = w_n + ε v_n`, `w_0(ε) = 1`, defined by the ε-shifted recurrence
 //! `Σ_j q_j(n + ε) w_{n+j}(ε) = O(ε²)` for n ≥ 1 − r, `L(t^ε Σ w_n(ε) tⁿ) = t^ε q_r(ε − r) = O(ε²)`,
 //! so `∂_ε` at ε = 0 gives the logarithmic solution
@@ -28,7 +28,7 @@
 //! `N₁ = −Σ_{j<r} (q_j(n) v_{n+j} + q_j′(n) w_{n+j})`.
 //!
 //! The v_n are exact rationals (cached per family, extended on demand). A further indicial root
-//! at a positive integer s would make a step divide by zero ([`Resonance`]); none of the 15
+//! at a positive integer s would make a step divide by zero ([`PicardFuchsError::Resonance`]); none of the 15
 //! families has one.
 //!
 //! **Order > 2.** The minimal recurrence of F1 and dP2 has order 4 and degree 3, so L has order

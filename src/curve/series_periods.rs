@@ -346,6 +346,9 @@ pub struct Agreement {
     pub r_beta: f64,
     pub tau: f64,
     pub nu: f64,
+    /// k with β_path = β_series + kα (the β values are compared after removing kα; measured
+    /// k = −2 for P2 from a ≈ 1e10, 0 elsewhere).
+    pub beta_shift: i64,
 }
 
 impl Agreement {
@@ -387,13 +390,35 @@ pub fn compare(laurent: &Laurent, a: &Complex) -> Result<TwoMethods, PeriodsErro
         Ok(s) => (Some(s), None),
         Err(e) => (None, Some(e.to_string())),
     };
-    let agreement = series.as_ref().map(|s| Agreement {
-        omega_alpha: digits_agreeing(&s.alpha.omega, &path.alpha.omega),
-        r_alpha: digits_agreeing(&s.alpha.regulator, &path.alpha.regulator),
-        omega_beta: digits_agreeing(&s.beta.omega, &path.beta.omega),
-        r_beta: digits_agreeing(&s.beta.regulator, &path.beta.regulator),
-        tau: digits_agreeing(&s.derived.tau, &path.tau),
-        nu: digits_agreeing(&s.derived.nu, &path.nu),
+    let agreement = series.as_ref().map(|s| {
+        // The path's β loop and the series' β may be different cycles of the same class modulo
+        // α: β_path = β_series + kα with k = Re(τ_path − τ_series) an integer. ν does not depend
+        // on k; Ω_β, R_β and τ are compared after removing kα.
+        let prec = a.prec().0;
+        let shift = Complex::with_val(prec, &path.tau - &s.derived.tau)
+            .real()
+            .to_f64();
+        let k = if shift.is_finite() {
+            shift.round()
+        } else {
+            0.0
+        };
+        let kc = Complex::with_val(prec, k);
+        let less = |v: &Complex, alpha: &Complex| {
+            Complex::with_val(prec, v - Complex::with_val(prec, alpha * &kc))
+        };
+        Agreement {
+            omega_alpha: digits_agreeing(&s.alpha.omega, &path.alpha.omega),
+            r_alpha: digits_agreeing(&s.alpha.regulator, &path.alpha.regulator),
+            omega_beta: digits_agreeing(&s.beta.omega, &less(&path.beta.omega, &path.alpha.omega)),
+            r_beta: digits_agreeing(
+                &s.beta.regulator,
+                &less(&path.beta.regulator, &path.alpha.regulator),
+            ),
+            tau: digits_agreeing(&s.derived.tau, &Complex::with_val(prec, &path.tau - &kc)),
+            nu: digits_agreeing(&s.derived.nu, &path.nu),
+            beta_shift: k as i64,
+        }
     });
     Ok(TwoMethods {
         series,

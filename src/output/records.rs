@@ -393,6 +393,7 @@ impl PeriodsRecord {
                 r_beta: floor(a.r_beta),
                 tau: floor(a.tau),
                 nu: floor(a.nu),
+                beta_shift: a.beta_shift,
             }),
             series: c.series.as_ref().map(|s| SeriesRecord {
                 omega_alpha: cj(&s.alpha.omega),

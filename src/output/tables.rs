@@ -157,6 +157,12 @@ pub fn periods_table(
                 s.terms,
                 ag.worst()
             ));
+            if ag.beta_shift != 0 {
+                out.push_str(&format!(
+                    "the path's beta is the series' beta {:+}·alpha: Omega_beta, R_beta and tau are compared after removing it (nu does not depend on it).\n",
+                    ag.beta_shift
+                ));
+            }
         }
         _ => {
             for (name, path) in path_rows {
