@@ -26,7 +26,7 @@
 //!     allow_non_attractor: false,
 //! };
 //! let psi = build_profile(&f0, &Target::Attractor(moduli[1].clone()), &options)?;
-//! assert!(psi.residual.as_ref().unwrap().max < 1e-10);
+//! assert!(psi.residual.as_ref().unwrap().max.unwrap() < 1e-10);
 //! # Ok::<(), Box<dyn std::error::Error>>(())
 //! ```
 //!
