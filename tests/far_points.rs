@@ -216,3 +216,42 @@ fn grids_beyond_the_reach_are_refused_before_sampling() {
     // The same family within the reach is built (the refusal is not a blanket one).
     assert!(profile("F0", 0, "0:230:2", 16).is_ok());
 }
+
+#[test]
+fn a_point_without_a_usable_recomputation_keeps_its_first_value_with_its_digits() {
+    // F1* level 1 on a 121-point grid: at r = −5.2 the recomputation at raised precision gives
+    // no usable value; the first value is kept, listed under point_digits.kept_short with the
+    // digits it holds (8.4), and agrees with an independent 40-digit run to those digits — it is
+    // not left without a value (the audit's norm would then be refused).
+    let l = family("F1*");
+    let options = |digits| ProfileOptions {
+        grid: Grid::parse("-12:12:121").unwrap(),
+        strip: true,
+        digits,
+        allow_non_attractor: false,
+    };
+    let low = build_profile(&l, &Target::Level(1), &options(16)).unwrap();
+    assert!(
+        low.point_digits.dropped.is_empty(),
+        "{:?}",
+        low.point_digits.dropped
+    );
+    let kept = &low.point_digits.kept_short;
+    assert!(!kept.is_empty());
+    let reference = build_profile(
+        &l,
+        &Target::Level(1),
+        &ProfileOptions {
+            grid: Grid::parse("-5.2:-5:2").unwrap(),
+            ..options(40)
+        },
+    )
+    .unwrap();
+    for note in kept {
+        assert!(note.digits >= 1.0);
+        let value = low.real_line[note.index].unwrap();
+        let exact = reference.real_line[0].unwrap();
+        assert!((note.r + 5.2).abs() < 1e-12);
+        assert!(agreement(value, exact) >= note.digits - 1.0, "{note:?}");
+    }
+}

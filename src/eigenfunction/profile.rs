@@ -642,11 +642,9 @@ fn settle_points(
         let unusable = (0..lines_n).all(|l| {
             p.point_digits.relative[l][k].is_none_or(|d| !d.is_finite())
         });
-        let first_held = lines
-            .iter()
-            .filter_map(|&l| first_digits[l][k])
-            .fold(f64::INFINITY, f64::min);
-        if !zero && unusable && !lines.is_empty() && first_held.is_finite() && first_held >= 1.0 {
+        // `before` is the fewest digits the first value held over its lines.
+        let short = !zero && unusable && !lines.is_empty() && before.is_finite() && before >= 1.0;
+        if zero || short {
             for (l, v) in kept.into_iter().enumerate().take(lines_n) {
                 set_value(p, l, k, v);
                 p.point_digits.relative[l][k] = first_digits[l][k];
@@ -655,30 +653,23 @@ fn settle_points(
                 let absolute = old.per_point[k].map(|v| v * old.scale);
                 res.replace(&[k], &[absolute]);
             }
+        }
+        if zero {
+            zeros.push((k, before, after, held));
+        }
+        if short {
             p.point_digits.kept_short.push(PointNote {
                 line: 0,
                 index: k,
                 r: p.grid[k],
-                digits: first_held,
+                digits: before,
                 digits_relative_to_peak: None,
                 reason: format!(
-                    "computed again at {work:.0} working digits without a usable value; the first value is kept, holding {first_held:.1} digits of its own (the fewest over its lines)"
+                    "computed again at {work:.0} working digits without a usable value; the first value is kept, holding {before:.1} digits of its own (the fewest over its lines)"
                 ),
             });
-            return false;
         }
-        if zero {
-            zeros.push((k, before, after, held));
-            for (l, v) in kept.into_iter().enumerate().take(lines_n) {
-                set_value(p, l, k, v);
-                p.point_digits.relative[l][k] = first_digits[l][k];
-            }
-            if let (Some(res), Some(old)) = (p.residual.as_mut(), &first_residual) {
-                let absolute = old.per_point[k].map(|v| v * old.scale);
-                res.replace(&[k], &[absolute]);
-            }
-        }
-        !zero
+        !(zero || short)
     });
     let dropped: Vec<usize> = todo.iter().map(|t| t.0).collect();
     for &k in &dropped {
@@ -719,8 +710,10 @@ fn settle_points(
         res.replace(&dropped, &vec![None; dropped.len()]);
     }
     if let Some(bits) = p.point_digits.raised_bits {
+        let kept_short: Vec<usize> = p.point_digits.kept_short.iter().map(|n| n.index).collect();
         for (k, digits) in first {
-            if !dropped.contains(&k) && !zeros.iter().any(|z| z.0 == k) {
+            if !dropped.contains(&k) && !zeros.iter().any(|z| z.0 == k) && !kept_short.contains(&k)
+            {
                 p.point_digits.raised.push(PointNote {
                     line: 0,
                     index: k,
